@@ -1,0 +1,21 @@
+package dev.watcher.detect;
+
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * The registry of the standard detectors: one line per detector. The daemon and {@code replay} run every
+ * detector listed here, in this order, for each run.
+ */
+public final class Detectors {
+
+    private Detectors() {
+    }
+
+    /** A fresh set of detectors for one run, reading their parameters from {@code settings}. */
+    public static List<Detector> standard(DetectSettings settings) {
+        List<Detector> all = new ArrayList<>();
+        // one line per detector, e.g. all.add(new NonFiniteDetector(settings));
+        return all;
+    }
+}

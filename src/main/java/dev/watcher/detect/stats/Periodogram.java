@@ -1,0 +1,139 @@
+package dev.watcher.detect.stats;
+
+import org.apache.commons.math3.complex.Complex;
+import org.apache.commons.math3.transform.DftNormalization;
+import org.apache.commons.math3.transform.FastFourierTransformer;
+import org.apache.commons.math3.transform.TransformType;
+
+/**
+ * The periodogram of the latest values of a series and the period it points at, with Fisher's g test that
+ * the peak is real. Commons Math's {@link FastFourierTransformer} takes power-of-two lengths only, so the
+ * latest N = 2^k values are used (N the largest power of two not above the available count). The values are
+ * detrended by a least-squares line first, so that a drift does not pile up at the lowest frequency.
+ * Ordinates I_k = |X_k|^2 / N for k = 1 .. N/2 - 1 (zero and Nyquist frequencies excluded, as Fisher's test
+ * requires). The period estimate N / k* from the peak is then refined on the sample autocorrelation: the
+ * highest autocorrelation within +/- 30 % of that lag, located to a fraction of a sample by a parabola
+ * through the three points around it (the periodogram alone only resolves periods N / k).
+ *
+ * @param length   N, the number of values transformed
+ * @param period   the refined period in samples (NaN when no peak)
+ * @param coarse   N / k*, the period at the periodogram peak
+ * @param fisher   Fisher's g test on the ordinates
+ * @param acfAtPeriod sample autocorrelation at the (rounded) refined period
+ */
+public record Periodogram(int length, double period, double coarse, FisherG fisher, double acfAtPeriod) {
+
+    /** Smallest length transformed. */
+    public static final int MIN_LENGTH = 16;
+
+    /** The periodogram of the latest power-of-two values of {@code x[0..n)}; null when n &lt; {@link #MIN_LENGTH}. */
+    public static Periodogram of(double[] x, int n) {
+        if (n < MIN_LENGTH) {
+            return null;
+        }
+        int len = Integer.highestOneBit(n);
+        int from = n - len;
+        double[] d = detrended(x, from, len);
+        Complex[] f = new FastFourierTransformer(DftNormalization.STANDARD).transform(d, TransformType.FORWARD);
+        int m = len / 2 - 1;
+        double[] ord = new double[m];
+        for (int k = 1; k <= m; k++) {
+            double re = f[k].getReal();
+            double im = f[k].getImaginary();
+            ord[k - 1] = (re * re + im * im) / len;
+        }
+        FisherG g = FisherG.of(ord, m);
+        if (g.peak() < 1 || Double.isNaN(g.g())) {
+            return new Periodogram(len, Double.NaN, Double.NaN, g, Double.NaN);
+        }
+        double coarse = (double) len / g.peak();
+        double refined = refine(d, len, coarse);
+        double acf = autocorrelation(d, len, (int) Math.round(refined));
+        return new Periodogram(len, refined, coarse, g, acf);
+    }
+
+    /** Sample autocorrelation of {@code d[0..n)} (mean already removed or not: it is removed here) at a lag. */
+    public static double autocorrelation(double[] d, int n, int lag) {
+        if (lag <= 0 || lag >= n) {
+            return Double.NaN;
+        }
+        double mean = 0;
+        for (int i = 0; i < n; i++) {
+            mean += d[i];
+        }
+        mean /= n;
+        double den = 0;
+        for (int i = 0; i < n; i++) {
+            den += (d[i] - mean) * (d[i] - mean);
+        }
+        if (den == 0) {
+            return 0;
+        }
+        double num = 0;
+        for (int i = 0; i + lag < n; i++) {
+            num += (d[i] - mean) * (d[i + lag] - mean);
+        }
+        return num / den;
+    }
+
+    /**
+     * The first local maximum of the sample autocorrelation of {@code x[0..n)} in lags [minLag, maxLag] that
+     * exceeds {@code threshold}, or -1. A simple period estimate for short series (e.g. per-step peaks).
+     */
+    public static int firstAutocorrelationPeak(double[] x, int n, int minLag, int maxLag, double threshold) {
+        int hi = Math.min(maxLag, n - 2);
+        for (int lag = Math.max(1, minLag); lag <= hi; lag++) {
+            double r = autocorrelation(x, n, lag);
+            if (r > threshold && r >= autocorrelation(x, n, lag - 1) && r >= autocorrelation(x, n, lag + 1)) {
+                return lag;
+            }
+        }
+        return -1;
+    }
+
+    private static double refine(double[] d, int n, double coarse) {
+        int lo = Math.max(2, (int) Math.floor(coarse * 0.7));
+        int hi = Math.min(n / 2, (int) Math.ceil(coarse * 1.3));
+        if (hi <= lo) {
+            return coarse;
+        }
+        int best = -1;
+        double bestR = Double.NEGATIVE_INFINITY;
+        for (int lag = lo; lag <= hi; lag++) {
+            double r = autocorrelation(d, n, lag);
+            if (r > bestR) {
+                bestR = r;
+                best = lag;
+            }
+        }
+        if (best <= lo || best >= hi) {
+            return best < 0 ? coarse : best;
+        }
+        double a = autocorrelation(d, n, best - 1);
+        double c = autocorrelation(d, n, best + 1);
+        double den = a - 2 * bestR + c;
+        double shift = den < 0 ? 0.5 * (a - c) / den : 0;
+        return best + Math.max(-0.5, Math.min(0.5, shift));
+    }
+
+    private static double[] detrended(double[] x, int from, int len) {
+        double mt = (len - 1) / 2.0;
+        double my = 0;
+        for (int i = 0; i < len; i++) {
+            my += x[from + i];
+        }
+        my /= len;
+        double sxy = 0;
+        double sxx = 0;
+        for (int i = 0; i < len; i++) {
+            sxy += (i - mt) * (x[from + i] - my);
+            sxx += (i - mt) * (i - mt);
+        }
+        double b = sxy / sxx;
+        double[] d = new double[len];
+        for (int i = 0; i < len; i++) {
+            d[i] = x[from + i] - my - b * (i - mt);
+        }
+        return d;
+    }
+}

@@ -102,7 +102,10 @@ public final class StopCoordinator implements AutoCloseable {
         this.watchStart = clock.instant();
         this.worker = Executors.newSingleThreadExecutor(r -> Daemons.thread(r, "act-stop-" + run + "-"));
         this.jobInfo = this.policy.given();
-        if (control != null) {
+        if (control != null && control.identity().isPresent()) {
+            // A local process: its start time is already known, no I/O needed.
+            this.jobInfo = control.info().orElse(this.policy.given());
+        } else if (control != null) {
             // Fetch size and start once, off the run's thread; the gates use the start when it arrives.
             worker.execute(this::refreshInfo);
         }

@@ -1,17 +1,17 @@
 package dev.watcher.tail;
 
 import java.util.ArrayList;
+import java.util.Collections;
 import java.util.List;
-import java.util.concurrent.CopyOnWriteArrayList;
 
 /** Records what a reader delivers: lines (copied, as the contract asks), their numbers, and notices. */
 final class RecordingHandler implements LineHandler {
 
-    final List<String> lines = new CopyOnWriteArrayList<>();
-    final List<Long> numbers = new CopyOnWriteArrayList<>();
-    final List<TailNotice> notices = new CopyOnWriteArrayList<>();
+    final List<String> lines = Collections.synchronizedList(new ArrayList<>());
+    final List<Long> numbers = Collections.synchronizedList(new ArrayList<>());
+    final List<TailNotice> notices = Collections.synchronizedList(new ArrayList<>());
     /** Lines and notices in the order they came, notices as {@code !KIND}. */
-    final List<String> events = new CopyOnWriteArrayList<>();
+    final List<String> events = Collections.synchronizedList(new ArrayList<>());
 
     @Override
     public void line(CharSequence line, long lineNo) {
@@ -28,14 +28,16 @@ final class RecordingHandler implements LineHandler {
     }
 
     List<TailNotice.Kind> kinds() {
-        List<TailNotice.Kind> k = new ArrayList<>();
-        for (TailNotice n : notices) {
-            k.add(n.kind());
+        synchronized (notices) {
+            List<TailNotice.Kind> k = new ArrayList<>();
+            for (TailNotice n : notices) {
+                k.add(n.kind());
+            }
+            return k;
         }
-        return k;
     }
 
     long count(TailNotice.Kind kind) {
-        return notices.stream().filter(n -> n.kind() == kind).count();
+        return kinds().stream().filter(k -> k == kind).count();
     }
 }

@@ -5,7 +5,6 @@ import java.time.Instant;
 import java.time.LocalDateTime;
 import java.time.ZoneId;
 import java.time.format.DateTimeParseException;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Set;
 import java.util.regex.Matcher;
@@ -14,9 +13,9 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * A SLURM job or step: {@code scancel --signal=SIG ID[.STEP]} (with {@code --full} for a whole job, so the
- * batch shell's children hear it too), then {@code scancel ID[.STEP]}; presence from {@code squeue}; size
- * and time limit from {@code scontrol show job -o}.
+ * A SLURM job or step: {@code scancel --signal=SIG ID[.STEP]} (reaches the job's steps, not its batch shell),
+ * then {@code scancel ID[.STEP]} (TERM, then KILL after the cluster's KillWait); presence from {@code squeue};
+ * size and time limit from {@code scontrol show job -o}.
  */
 final class SlurmControl extends SchedulerControl {
 
@@ -67,12 +66,9 @@ final class SlurmControl extends SchedulerControl {
 
     @Override
     List<String> signalCommand(String signal) {
-        List<String> cmd = new ArrayList<>(List.of("scancel", "--signal=" + signal));
-        if (job.step() == null) {
-            cmd.add("--full");
-        }
-        cmd.add(job.target());
-        return cmd;
+        // No --full: the signal goes to the job's steps, not to the batch shell, which then lives on to see its
+        // steps end (a solver started without srun hears only the forced scancel, which sends TERM first).
+        return List.of("scancel", "--signal=" + signal, job.target());
     }
 
     @Override

@@ -38,8 +38,8 @@ import org.slf4j.LoggerFactory;
  * scheduler or the process tells it, else the time this coordinator was made) is at least
  * {@code minRunAge} old; {@code afterSegment} has passed since the last new segment. A request that does
  * not pass yet is held and looked at again on every record; the first time it is held, one
- * {@code refused} event with {@code pending: true} says why. A new segment drops held requests (the
- * persistence count starts again). At most one stop sequence (or one {@code would-stop}) per run; never a
+ * {@code refused} event with {@code pending: true} says why. A held request is dropped when its condition
+ * resolves ({@link #cleared}) and when a new segment starts (the persistence count starts again). At most one stop sequence (or one {@code would-stop}) per run; never a
  * stop while the run is marked converged, except a request whose pattern is {@code converged} itself
  * (stopping a finished run early to save hours).
  *
@@ -146,6 +146,18 @@ public final class StopCoordinator implements AutoCloseable {
                 break;
             }
             evaluate(h);
+        }
+    }
+
+    /**
+     * The condition behind {@code pattern} resolved (its detection closed): a request held for it is dropped
+     * and never acts. When the hold had been reported, a final {@code refused} event says it cleared.
+     */
+    public synchronized void cleared(String pattern) {
+        Held h = held.remove(pattern);
+        if (h != null && h.deferralReported && sequence == null) {
+            emit(h.latest, "refused", Severity.INFO, fields(h.latest, primaryMethod(), null,
+                    "the condition cleared before the gates passed", null));
         }
     }
 
@@ -370,7 +382,7 @@ public final class StopCoordinator implements AutoCloseable {
 
     private void putCoreHours(Map<String, Object> f, Optional<Double> saved) {
         if (saved.isPresent()) {
-            double v = Math.round(saved.get() * 10) / 10.0;
+            double v = Math.round(saved.get() * 100) / 100.0;
             f.put("core_hours_saved", v);
             JobInfo i = jobInfo;
             f.put("core_hours_note", "up to " + v + " core-hours: " + i.cores() + " cores for the "

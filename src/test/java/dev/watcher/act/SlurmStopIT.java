@@ -101,8 +101,8 @@ class SlurmStopIT {
     void runningJobIsSignalledThroughJobControlAndSqueueNoLongerListsIt() throws Exception {
         Path solverOut = dir.resolve("solver.log");
         Path batch = executable("loop.sbatch", "#!/bin/bash\n"
-                + "srun bash -c 'trap \"echo caught-term; exit 0\" TERM; "
-                + "while :; do echo \"~ pass $SECONDS | temp 1e+02\"; sleep 0.2; done' > '" + solverOut + "' &\n"
+                + "srun bash -c 'exec >> " + solverOut + "; trap \"echo caught-term; exit 0\" TERM; "
+                + "while :; do echo \"~ pass $SECONDS | temp 1e+02\"; sleep 0.2; done' &\n"
                 + "wait\n");
         String id = submit(Map.of(), batch.toString());
         await().atMost(60, TimeUnit.SECONDS).until(() -> Files.exists(solverOut) && Files.size(solverOut) > 0);
@@ -115,10 +115,41 @@ class SlurmStopIT {
         StopStep last = c.stop("TERM", Duration.ofSeconds(30), Duration.ofSeconds(60), steps::add);
         assertEquals("done", last.state(), steps.toString());
         assertEquals("signalled", steps.get(0).state());
-        assertTrue(steps.get(0).detail().startsWith("scancel --signal=TERM --full " + id), steps.get(0).detail());
+        assertTrue(steps.get(0).detail().equals("scancel --signal=TERM " + id), steps.get(0).detail());
         assertFalse(listed(id), "squeue no longer lists job " + id);
         assertTrue(Files.readString(solverOut).contains("caught-term"), "the solver's TERM trap ran");
         assertTrue(c.onEnd().get(30, TimeUnit.SECONDS) == null);
+    }
+
+    @Test
+    void coordinatorStopsTheSolverStepAndTheTimelineHasEveryActionWithCoreHoursFromScontrol() throws Exception {
+        Path solverOut = dir.resolve("solver.log");
+        Path batch = executable("step.sbatch", "#!/bin/bash\n"
+                + "srun --job-name=solver bash -c 'while :; do echo \"~ pass $SECONDS | temp NaN\"; sleep 0.2; done' > '"
+                + solverOut + "' &\n"
+                + "wait\necho batch-shell-still-here\n");
+        String id = submit(Map.of(), batch.toString());
+        await().atMost(60, TimeUnit.SECONDS).until(() -> Files.exists(solverOut) && Files.size(solverOut) > 0);
+        String step = run(List.of("bash", "-c", "squeue -h -s -j " + id + " -o '%i %j' | awk '$2==\"solver\"{print $1}'"));
+        assertTrue(step.matches(id + "\\.[0-9]+"), "step " + step);
+        ListSink sink = new ListSink();
+        try (StopCoordinator c = new StopCoordinator("vent-stack", JobControl.attach(JobRef.parse("slurm:" + step)),
+                true, StopPolicy.defaults().withGrace(Duration.ofSeconds(30)), java.time.Clock.systemUTC(), sink)) {
+            c.request(new dev.watcher.model.StopRequest("vent-stack", "non-finite", dev.watcher.model.Severity.CRITICAL,
+                    12, "NaN in temp", Map.of("equation", "temp"),
+                    new dev.watcher.model.StopGate(0, Duration.ZERO, Duration.ZERO, Duration.ZERO)));
+            c.stopSequence().orElseThrow().get(120, TimeUnit.SECONDS);
+        }
+        assertEquals(List.of("requested", "signalled", "done"), sink.states(), sink.events().toString());
+        assertEquals("slurm", sink.events().get(0).fields().get("method"));
+        assertEquals("slurm:" + step, sink.events().get(0).fields().get("job"));
+        // 10-minute limit on 1 CPU (sbatch --time=10 above): at most 10/60 core-hours are left (rounded to 0.01).
+        double saved = (Double) sink.events().get(0).fields().get("core_hours_saved");
+        assertTrue(saved > 0 && saved <= 0.17, "saved " + saved);
+        assertTrue(((String) sink.events().get(1).fields().get("detail")).startsWith("scancel --signal=TERM " + step));
+        await().atMost(90, TimeUnit.SECONDS).until(() -> !listed(id));
+        assertTrue(Files.readString(dir.resolve("job-" + id + ".out")).contains("batch-shell-still-here"),
+                "stopping the step left the batch shell to finish");
     }
 
     @Test

@@ -129,6 +129,25 @@ class StopCoordinatorIT {
     }
 
     @Test
+    void heldRequestWhoseConditionClearsNeverActs() throws Exception {
+        Process p = solver();
+        StopGate gate = new StopGate(3, Duration.ZERO, Duration.ZERO, Duration.ZERO);
+        try (StopCoordinator c = new StopCoordinator("fan-duct", JobControl.attach(new JobRef.Pid(p.pid())), true,
+                StopPolicy.defaults(), clock, sink)) {
+            c.request(blowup(100, gate));
+            c.recordSeen(101);
+            c.cleared("single-equation-blowup");
+            for (long i = 102; i < 110; i++) {
+                c.recordSeen(i);
+            }
+            assertTrue(c.stopSequence().isEmpty());
+        }
+        assertEquals(List.of("refused", "refused"), sink.states());
+        assertTrue(((String) sink.events().get(1).fields().get("reason")).contains("cleared"));
+        assertTrue(p.isAlive());
+    }
+
+    @Test
     void minimumRunAgeAndSegmentGraceHoldTheStop() throws Exception {
         Process p = solver();
         StopGate gate = new StopGate(0, Duration.ZERO, Duration.ofHours(2), Duration.ofMinutes(5));

@@ -30,8 +30,14 @@ fi
 cleanup() { [[ "${BENCH_KEEP:-0}" == 1 || -n "${BENCH_DIR:-}" ]] || rm -rf "$work"; }
 trap cleanup EXIT
 
-now() { date +%s.%N; }
-secs() { awk -v a="$1" -v b="$2" 'BEGIN{printf "%.3f", b-a}'; }
+# timed CMD...: runs CMD with stdout to $work/out, sets wall and cpu (user+sys, children included) in seconds
+timed() {
+  local TIMEFORMAT='%R %U %S' t
+  t=$( { time "$@" >"$work/out" 2>"$work/err"; } 2>&1 ) || echo "$1 exited with $?: $(tail -n 3 "$work/err")" >&2
+  wall=$(awk '{print $1}' <<<"$t"); cpu=$(awk '{printf "%.2f", $2+$3}' <<<"$t")
+}
+rate() { awk -v b="$bytes" -v s="$1" -v n="$lines" 'BEGIN{printf "%.0f records/s  %.1f MB/s", n/s, b/1e6/s}'; }
+ratio() { awk -v a="$1" -v b="$2" 'BEGIN{printf "%.2f", a/b}'; }
 
 has_replay=0
 if [[ -x "$root/watcher" ]] && "$root/watcher" replay --help >/dev/null 2>&1; then
@@ -47,38 +53,30 @@ run_one() {
   cat "$file" >/dev/null   # warm the page cache so every contender reads from memory
 
   echo "== $lines lines, $(awk -v b="$bytes" 'BEGIN{printf "%.1f", b/1e6}') MB: $file"
-  local t0 t1 awk_s out
+  echo "   (wall = elapsed seconds, cpu = user+sys seconds; on a busy machine cpu is the steadier figure)"
+  local awk_wall="" awk_cpu=""
   if command -v mawk >/dev/null; then
-    t0=$(now); out=$(mawk '{for(i=2;i<=9;i++) s+=log($i)} END{print s}' "$file"); t1=$(now)
-    awk_s=$(secs "$t0" "$t1")
-    echo "mawk           ${awk_s} s  $(awk -v b="$bytes" -v s="$awk_s" -v n="$lines" \
-      'BEGIN{printf "%.0f records/s  %.1f MB/s", n/s, b/1e6/s}')  (printed: $out)"
+    timed mawk '{for(i=2;i<=9;i++) s+=log($i)} END{print s}' "$file"
+    awk_wall=$wall; awk_cpu=$cpu
+    echo "mawk            wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (printed: $(cat "$work/out"))"
   else
-    awk_s=""
-    echo "mawk           not installed: no reference time"
+    echo "mawk            not installed: no reference time"
   fi
 
-  t0=$(now)
-  out=$(java -Xmx"$xmx" -cp "$jar" dev.watcher.bench.ReadBench "$file")
-  t1=$(now)
-  local rb_s; rb_s=$(secs "$t0" "$t1")
-  echo "read+parse     ${rb_s} s wall (JVM start included), -Xmx$xmx"
-  echo "$out" | sed 's/^/               /'
-  [[ -n "$awk_s" ]] && awk -v a="$awk_s" -v b="$rb_s" 'BEGIN{printf "               %.2fx the speed of mawk (wall clock)\n", a/b}'
+  timed java -Xmx"$xmx" -cp "$jar" dev.watcher.bench.ReadBench "$file"
+  echo "read+parse      wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (JVM start included, -Xmx$xmx)"
+  sed 's/^/                /' "$work/out"
+  [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
 
   if [[ "$has_replay" == 1 ]]; then
     local state="$work/state-$lines"; rm -rf "$state"; mkdir -p "$state"
-    t0=$(now)
-    JAVA_TOOL_OPTIONS="-Xmx$xmx ${JAVA_TOOL_OPTIONS:-}" "$root/watcher" replay "$file" --format table \
-      --state "$state" >"$work/replay-$lines.out" 2>&1 || echo "replay exited with $?"
-    t1=$(now)
-    local rp_s; rp_s=$(secs "$t0" "$t1")
-    echo "watcher replay ${rp_s} s  $(awk -v b="$bytes" -v s="$rp_s" -v n="$lines" \
-      'BEGIN{printf "%.0f records/s  %.1f MB/s", n/s, b/1e6/s}'), -Xmx$xmx"
-    [[ -n "$awk_s" ]] && awk -v a="$awk_s" -v b="$rp_s" 'BEGIN{printf "               %.2fx the speed of mawk\n", a/b}'
-    tail -n 3 "$work/replay-$lines.out" | sed 's/^/               /'
+    JAVA_TOOL_OPTIONS="-Xmx$xmx ${JAVA_TOOL_OPTIONS:-}" timed "$root/watcher" replay "$file" --format table \
+      --state "$state"
+    echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (-Xmx$xmx)"
+    [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
+    tail -n 3 "$work/out" | sed 's/^/                /'
   else
-    echo "watcher replay not available yet (no ./watcher with a replay command)"
+    echo "watcher replay  not available yet (no ./watcher with a replay command)"
   fi
   [[ "${BENCH_KEEP:-0}" == 1 ]] || rm -f "$file"
 }

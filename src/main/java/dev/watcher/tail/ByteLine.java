@@ -1,12 +1,13 @@
 package dev.watcher.tail;
 
+import dev.watcher.model.AsciiText;
 import java.nio.charset.StandardCharsets;
 
 /**
  * A reusable CharSequence over ASCII bytes of a buffer: no String is built unless a receiver asks for one.
  * Valid only until the reader moves on.
  */
-final class ByteLine implements CharSequence {
+final class ByteLine implements AsciiText {
 
     private byte[] bytes;
     private int off;
@@ -17,6 +18,16 @@ final class ByteLine implements CharSequence {
         this.off = offset;
         this.len = length;
         return this;
+    }
+
+    @Override
+    public byte[] array() {
+        return bytes;
+    }
+
+    @Override
+    public int offset() {
+        return off;
     }
 
     @Override

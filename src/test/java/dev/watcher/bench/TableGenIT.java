@@ -103,4 +103,21 @@ class TableGenIT {
         }
         assertEquals(expected, sink.sumLog, Math.abs(expected) * 1e-12);
     }
+
+    @Test
+    void benchSinkGivesTheSameResultForAStringAndForAByteView() throws IOException {
+        Path f = dir.resolve("v.txt");
+        TableGen.write(f, 200);
+        ReadBench.TableSink bytes = new ReadBench.TableSink();
+        LogReader.readAll(f, bytes, TailOptions.DEFAULTS);
+        ReadBench.TableSink strings = new ReadBench.TableSink();
+        long no = 0;
+        for (String line : Files.readAllLines(f)) {
+            strings.line(line, ++no);
+        }
+        strings.line("  7 1.0e-01 2.0e-01 x 1 1 1 1 1", ++no);
+        assertEquals(bytes.records, strings.records);
+        assertEquals(bytes.sumLog, strings.sumLog, 0.0);
+        assertEquals(1, strings.malformed);
+    }
 }

@@ -199,4 +199,20 @@ class LineSplitterTest {
         assertEquals("6:abc:abcdef", seen.toString());
         assertTrue(h.lines.isEmpty());
     }
+
+    @Test
+    void asciiLinesExposeTheirBytesAndNonAsciiLinesArriveDecoded() {
+        LineSplitter s = splitter();
+        List<String> seen = new java.util.ArrayList<>();
+        LineHandler probe = (line, no) -> {
+            if (line instanceof dev.watcher.model.AsciiText a) {
+                seen.add("bytes:" + new String(a.array(), a.offset(), a.length(), StandardCharsets.US_ASCII));
+            } else {
+                seen.add("chars:" + line);
+            }
+        };
+        byte[] b = bytes("xx plain\nd\u00e9j\u00e0\n");
+        s.feed(b, 3, b.length, probe);
+        assertEquals(List.of("bytes:plain", "chars:d\u00e9j\u00e0"), seen);
+    }
 }

@@ -63,6 +63,7 @@ public final class Dispatcher implements AutoCloseable {
     private final Map<String, Delivery> pending = new LinkedHashMap<>();
     private final List<Promise<Void>> drainers = new ArrayList<>();
     private boolean closed;
+    private int completing;
 
     /** One notice on its way: touched under {@link #lock}. */
     private static final class Delivery {
@@ -253,6 +254,13 @@ public final class Dispatcher implements AutoCloseable {
         webClient.close();
     }
 
+    /** Whether no sent or given-up notice is still being recorded in the outbox (tests). */
+    boolean settled() {
+        synchronized (lock) {
+            return completing == 0;
+        }
+    }
+
     /** Whether the outbox holds a file for the id (tests). */
     boolean inOutbox(String id) {
         return outbox.holds(id);
@@ -325,6 +333,9 @@ public final class Dispatcher implements AutoCloseable {
     }
 
     private void finish(Delivery d, String state, int attempt, String error) {
+        synchronized (lock) {
+            completing++;
+        }
         event(d.notice, state, attempt, error);
         if (GAVE_UP.equals(state)) {
             LOG.warn("notice {} for channel {} given up: {}", d.notice.id(), d.notice.channel(), error);
@@ -339,6 +350,7 @@ public final class Dispatcher implements AutoCloseable {
             }
             List<Promise<Void>> ready = List.of();
             synchronized (lock) {
+                completing--;
                 pending.remove(d.notice.id(), d);
                 if (pending.isEmpty() && !drainers.isEmpty()) {
                     ready = new ArrayList<>(drainers);

@@ -111,14 +111,13 @@ final class MailNotifier implements Notifier {
     private Outcome classify(Throwable t) {
         String where = "SMTP " + spec.host() + ":" + spec.port();
         if (t instanceof SMTPException s) {
-            String text = where + " replied " + s.getReplyCode() + " " + s.getReplyMessage();
+            String text = where + " replied: " + s.getReplyMessage();
             return s.isPermanent() ? Outcome.giveUp(text) : Outcome.retry(text, null);
         }
         if (t instanceof TimeoutException) {
             return Outcome.retry("no answer from " + where + " within " + timeoutMs + " ms", null);
         }
-        return Outcome.retry("cannot reach " + where + ": " + t.getClass().getSimpleName() + ": " + t.getMessage(),
-                null);
+        return Outcome.retry(where + ": " + t.getClass().getSimpleName() + ": " + t.getMessage(), null);
     }
 
     @Override

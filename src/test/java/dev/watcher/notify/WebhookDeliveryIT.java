@@ -58,6 +58,8 @@ class WebhookDeliveryIT {
 
     @AfterEach
     void down() throws Exception {
+        // let recording of finished notices end before the worker threads go away
+        await().atMost(WAIT).until(() -> dispatchers.stream().allMatch(Dispatcher::settled));
         dispatchers.forEach(Dispatcher::close);
         receiver.close();
         vertx.close().toCompletionStage().toCompletableFuture().get(10, TimeUnit.SECONDS);

@@ -64,6 +64,8 @@ public final class Dispatcher implements AutoCloseable {
     private final List<Promise<Void>> drainers = new ArrayList<>();
     private boolean closed;
     private int completing;
+    private int inFlight;
+    private final long closeWaitMs;
 
     /** One notice on its way: touched under {@link #lock}. */
     private static final class Delivery {
@@ -121,6 +123,15 @@ public final class Dispatcher implements AutoCloseable {
                 }
                 notifiers.put(c.name(), n);
             }
+            long longest = options.timeout().toMillis();
+            for (ChannelSpec c : channels) {
+                Duration t = c instanceof WebhookSpec w ? w.timeout() : ((MailSpec) c).timeout();
+                if (t != null && t.toMillis() > longest) {
+                    longest = t.toMillis();
+                }
+            }
+            // an attempt is bounded by its timeout plus the one-second outer bound; then recording it
+            this.closeWaitMs = longest + 3000;
         } catch (RuntimeException e) {
             notifiers.values().forEach(Notifier::close);
             webClient.close();
@@ -228,9 +239,11 @@ public final class Dispatcher implements AutoCloseable {
     }
 
     /**
-     * Stops: no further attempt starts, scheduled retries are cancelled, connections are closed. Pending
-     * notices stay in the outbox; the outcome of an attempt still in flight is not recorded (it is made
-     * again in the next life). Idempotent.
+     * Stops: no further attempt starts and scheduled retries are cancelled; attempts already in flight are
+     * waited for (at most the longest per-attempt timeout plus a few seconds) so that a notice the receiver
+     * took is recorded as done and not sent again by the next life; then connections are closed. Pending
+     * notices stay in the outbox. Called on an event-loop thread it does not wait (an in-flight attempt's
+     * outcome may then be lost, and the notice sent again later with the same id). Idempotent.
      */
     @Override
     public void close() {
@@ -250,8 +263,30 @@ public final class Dispatcher implements AutoCloseable {
             drainers.clear();
         }
         waiting.forEach(Promise::tryComplete);
+        if (!Context.isOnEventLoopThread()) {
+            awaitQuiet();
+        }
         notifiers.values().forEach(Notifier::close);
         webClient.close();
+    }
+
+    private void awaitQuiet() {
+        long deadline = System.nanoTime() + closeWaitMs * 1_000_000L;
+        synchronized (lock) {
+            while (inFlight > 0 || completing > 0) {
+                long left = (deadline - System.nanoTime()) / 1_000_000L;
+                if (left <= 0) {
+                    LOG.warn("closing with {} attempt(s) still in flight; their notices stay in the outbox", inFlight);
+                    return;
+                }
+                try {
+                    lock.wait(left);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    return;
+                }
+            }
+        }
     }
 
     /** Whether no sent or given-up notice is still being recorded in the outbox (tests). */
@@ -290,9 +325,10 @@ public final class Dispatcher implements AutoCloseable {
             }
             d.timer = -1;
             attempt = ++d.attempts;
+            inFlight++;
         }
         if (d.notifier == null) {
-            finish(d, GAVE_UP, attempt, "no channel named '" + d.notice.channel() + "'");
+            settle(d, attempt, Outcome.giveUp("no channel named '" + d.notice.channel() + "'"));
             return;
         }
         Future<Outcome> f;
@@ -306,15 +342,25 @@ public final class Dispatcher implements AutoCloseable {
     }
 
     private void settle(Delivery d, int attempt, Outcome o) {
+        boolean stopping;
         synchronized (lock) {
-            if (closed) {
-                return;
+            inFlight--;
+            stopping = closed;
+            // counted before the lock is released, so close() never sees a quiet moment in between
+            if (!o.retryable() || (!stopping && attempt >= d.notifier.maxAttempts())) {
+                completing++;
             }
+            lock.notifyAll();
         }
         switch (o.result()) {
             case SENT -> finish(d, SENT, attempt, null);
             case GIVE_UP, DISABLE -> finish(d, GAVE_UP, attempt, o.error());
             default -> {
+                if (stopping) {
+                    // closing: the failure is recorded, the next attempt belongs to the next life
+                    event(d.notice, FAILED, attempt, o.error());
+                    return;
+                }
                 if (attempt >= d.notifier.maxAttempts()) {
                     finish(d, GAVE_UP, attempt, o.error() + " (no attempt left after " + attempt + ")");
                     return;
@@ -332,10 +378,8 @@ public final class Dispatcher implements AutoCloseable {
         }
     }
 
+    /** Records a sent or given-up notice; the caller has counted it in {@link #completing}. */
     private void finish(Delivery d, String state, int attempt, String error) {
-        synchronized (lock) {
-            completing++;
-        }
         event(d.notice, state, attempt, error);
         if (GAVE_UP.equals(state)) {
             LOG.warn("notice {} for channel {} given up: {}", d.notice.id(), d.notice.channel(), error);
@@ -351,6 +395,7 @@ public final class Dispatcher implements AutoCloseable {
             List<Promise<Void>> ready = List.of();
             synchronized (lock) {
                 completing--;
+                lock.notifyAll();
                 pending.remove(d.notice.id(), d);
                 if (pending.isEmpty() && !drainers.isEmpty()) {
                     ready = new ArrayList<>(drainers);

@@ -42,7 +42,7 @@ import java.util.Set;
  *   <li>returns a {@link StopRequest} when the pattern's rule allows a stop at the detection's severity.</li>
  * </ul>
  * Notice ids are deterministic: a hash of run, channel, kind and the leading condition with the iteration it
- * opened at (reminders add their due time), so replays and restarts give the same ids and the outbox can drop
+ * opened at and its severity (reminders add their due time), so replays and restarts give the same ids and the outbox can drop
  * duplicates.
  */
 public final class Decider {
@@ -102,7 +102,9 @@ public final class Decider {
                 } else {
                     c.latest = r;
                     if (r.severity().compareTo(c.severity) > 0) {
+                        // an escalation is news: the condition goes out again at its new severity
                         c.severity = r.severity();
+                        c.notified = false;
                     }
                 }
                 stop = stopFor(r, now);
@@ -307,10 +309,10 @@ public final class Decider {
     private List<Notice> opened(List<Condition> members, List<Detection> infos, Instant now) {
         List<Item> items = new ArrayList<>();
         for (Condition c : members) {
-            items.add(new Item(c.latest, c.severity, c.key + "@" + c.openedIter, c));
+            items.add(new Item(c.latest, c.severity, c.identity(), c));
         }
         for (Detection i : infos) {
-            items.add(new Item(i, i.severity(), i.conditionKey() + "@" + i.iter(), null));
+            items.add(new Item(i, i.severity(), i.conditionKey() + "@" + i.iter() + "/" + i.severity().id(), null));
         }
         items.sort(Comparator.comparing((Item i) -> i.severity).reversed());
         Map<String, List<Item>> byChannel = new LinkedHashMap<>();
@@ -354,7 +356,7 @@ public final class Decider {
             }
             for (String ch : c.sentTo) {
                 byChannel.computeIfAbsent(ch, k -> new ArrayList<>())
-                        .add(new Item(c.latest, c.severity, c.key + "@" + c.openedIter, c));
+                        .add(new Item(c.latest, c.severity, c.identity(), c));
                 dueAt.putIfAbsent(ch, due);
             }
             reminded.add(c);
@@ -374,7 +376,7 @@ public final class Decider {
         List<Notice> out = new ArrayList<>();
         Detection shown = r.withSeverity(c.severity);
         for (String ch : c.sentTo) {
-            out.add(notice(ch, NoticeKind.RESOLVED, List.of(new Item(shown, c.severity, c.key + "@" + c.openedIter,
+            out.add(notice(ch, NoticeKind.RESOLVED, List.of(new Item(shown, c.severity, c.identity(),
                     c)), now, r.iter(), ""));
         }
         return out;
@@ -458,6 +460,11 @@ public final class Decider {
         Severity severity;
         boolean notified;
         Instant lastSent;
+
+        /** The condition as notice ids name it: key, opening iteration and severity (an escalation is new). */
+        String identity() {
+            return key + "@" + openedIter + "/" + severity.id();
+        }
 
         Condition(Detection d, Instant now) {
             this.key = d.conditionKey();

@@ -223,6 +223,24 @@ class DeciderTest {
     }
 
     @Test
+    void conditionThatEscalatesToAHigherSeverityIsNotifiedAgain() {
+        Decider d = new Decider(rules, "pump", clock);
+        d.decide(open(Patterns.INNER_STALL, 100, Severity.WARNING, "cont"), Map.of());
+        at(40);
+        List<Notice> first = d.tick();
+        assertEquals(List.of("ops"), channels(first));
+        at(100);
+        d.decide(open(Patterns.INNER_STALL, 180, Severity.WARNING, "cont"), Map.of());
+        assertTrue(d.tick().isEmpty(), "the same condition again at the same severity is no news");
+        // its hold and gather time have long passed: the escalation goes out at once
+        List<Notice> escalated = d.decide(open(Patterns.INNER_STALL, 200, Severity.CRITICAL, "cont"), Map.of())
+                .notices();
+        assertEquals(List.of("ops", "lead"), channels(escalated));
+        assertEquals(Severity.CRITICAL, escalated.get(0).severity());
+        assertNotEquals(first.get(0).id(), escalated.get(0).id(), "a new id, so the outbox does not drop it");
+    }
+
+    @Test
     void patternWithoutOnClearAndWithoutRemindersSendsOnlyItsFirstNotice() {
         Decider d = new Decider(rules, "pump", clock);
         d.decide(open(Patterns.RISING_PEAKS, 100, Severity.WARNING, "cont"), Map.of());

@@ -1,0 +1,207 @@
+package dev.watcher.daemon;
+
+import dev.watcher.detect.Detector;
+import dev.watcher.model.Detection;
+import dev.watcher.model.IterationRecord;
+import dev.watcher.model.LineParser;
+import dev.watcher.model.Malformed;
+import dev.watcher.model.Notice;
+import dev.watcher.model.ParseSink;
+import dev.watcher.model.PendingEvent;
+import dev.watcher.model.Samples;
+import dev.watcher.parse.RecordJoiner;
+import dev.watcher.rules.Decider;
+import dev.watcher.rules.Decision;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.EnumMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * One run's synchronous path: lines -> parsers (joined on the iteration when several files feed the run)
+ * -> records -> detectors -> rules -> outputs. Used alike by {@code watch} (fed by followers) and
+ * {@code replay} (fed by a whole-file reader), so both give the same detections in the same order.
+ *
+ * <p>Confined to the run's thread; not thread-safe. Never throws on bad input: malformed lines are counted
+ * per kind and logged at most once per kind per minute.
+ */
+final class RunPipeline {
+
+    private static final Logger LOG = LoggerFactory.getLogger(RunPipeline.class);
+
+    private final String run;
+    private final List<LineParser> parsers;
+    private final RecordJoiner joiner;
+    private final List<Detector> detectors;
+    private final Decider decider;
+    private final RunOutputs out;
+    private final RunCounters counters;
+    private final Clock clock;
+    private final Map<Malformed, Instant> lastLogged = new EnumMap<>(Malformed.class);
+    private final List<Sink> sinks = new ArrayList<>();
+    private IterationRecord last;
+    private int segment;
+
+    RunPipeline(String run, List<LineParser> parsers, List<Detector> detectors, Decider decider, RunOutputs out,
+            RunCounters counters, Clock clock) {
+        this.run = run;
+        this.parsers = List.copyOf(parsers);
+        this.joiner = parsers.size() > 1 ? new RecordJoiner() : null;
+        this.detectors = List.copyOf(detectors);
+        this.decider = decider;
+        this.out = out;
+        this.counters = counters;
+        this.clock = clock;
+        for (int i = 0; i < parsers.size(); i++) {
+            sinks.add(new Sink(i));
+        }
+    }
+
+    String run() {
+        return run;
+    }
+
+    RunCounters counters() {
+        return counters;
+    }
+
+    /** The latest record, or null before the first. */
+    IterationRecord last() {
+        return last;
+    }
+
+    long lastIter() {
+        return last == null ? 0 : last.iter();
+    }
+
+    List<Detector> detectors() {
+        return detectors;
+    }
+
+    /** One complete line of source {@code source} (0-based, in the order the sources were given). */
+    void line(int source, CharSequence line, long lineNo) {
+        counters.lines.incrementAndGet();
+        parsers.get(source).accept(line, lineNo, sinks.get(source));
+    }
+
+    /** Bad input found below the parser (the reader): counted and skipped like a malformed line. */
+    void malformed(Malformed kind, long lineNo, String detail) {
+        long n = counters.countMalformed(kind);
+        Instant now = clock.instant();
+        Instant prev = lastLogged.get(kind);
+        if (prev == null || Duration.between(prev, now).compareTo(Duration.ofMinutes(1)) >= 0) {
+            lastLogged.put(kind, now);
+            LOG.warn("{}: skipped {} input at line {} ({}); {} so far", run, kind.id(), lineNo, detail, n);
+        }
+    }
+
+    /** End of the input for now: a record still being assembled is emitted if complete. */
+    void flush() {
+        for (int i = 0; i < parsers.size(); i++) {
+            parsers.get(i).flush(sinks.get(i));
+        }
+        if (joiner != null) {
+            joiner.flush(this::onRecord);
+        }
+    }
+
+    /** Rules' time-driven notices (grouping waits, reminders). */
+    void tick() {
+        for (Notice n : decider.tick()) {
+            out.notice(n);
+        }
+    }
+
+    /** A detection that did not come from a detector (the silence watchdog) goes through the rules too. */
+    void external(Detection d) {
+        onDetection(d);
+    }
+
+    Decider decider() {
+        return decider;
+    }
+
+    /** The latest residual and monitor values by name (residuals first), for notices. */
+    Map<String, Double> lastValues() {
+        Map<String, Double> m = new LinkedHashMap<>();
+        if (last != null) {
+            put(m, last.residuals());
+            put(m, last.monitors());
+        }
+        return m;
+    }
+
+    private static void put(Map<String, Double> m, Samples s) {
+        for (int i = 0; i < s.size(); i++) {
+            m.put(s.name(i), s.value(i));
+        }
+    }
+
+    private void onRecord(IterationRecord r) {
+        counters.records.incrementAndGet();
+        last = r;
+        out.record(r);
+        for (Detector d : detectors) {
+            d.observe(r, this::onDetection);
+        }
+    }
+
+    private void onSegment(int seg, long lineNo, String reason) {
+        if (seg <= segment) {
+            return;
+        }
+        segment = seg;
+        counters.segments.incrementAndGet();
+        long iter = lastIter();
+        out.event(PendingEvent.run(run, iter, "segment", reason + " (line " + lineNo + ")"));
+        for (Detector d : detectors) {
+            d.segment(seg, iter, this::onDetection);
+        }
+        out.segment(seg, iter);
+    }
+
+    private void onDetection(Detection d) {
+        Decision dec = decider.decide(d, lastValues());
+        out.event(PendingEvent.detection(run, dec.detection()));
+        for (Notice n : dec.notices()) {
+            out.notice(n);
+        }
+        if (dec.stop() != null) {
+            out.stop(dec.stop());
+        }
+    }
+
+    private final class Sink implements dev.watcher.model.ParseSink {
+        private final int source;
+
+        Sink(int source) {
+            this.source = source;
+        }
+
+        @Override
+        public void record(IterationRecord record) {
+            if (joiner == null) {
+                onRecord(record);
+            } else {
+                joiner.accept(source, record, RunPipeline.this::onRecord);
+            }
+        }
+
+        @Override
+        public void segment(int seg, long line, String reason) {
+            onSegment(seg, line, reason);
+        }
+
+        @Override
+        public void malformed(Malformed kind, long line, String detail) {
+            RunPipeline.this.malformed(kind, line, detail);
+        }
+    }
+
+}

@@ -28,7 +28,7 @@ final class Pipelines {
         return DetectSettings.of(ov, families);
     }
 
-    static RunPipeline build(RunSpec spec, RuleSet rules, Map<String, String> cliOverrides, RunOutputs out,
+    static RunPipeline build(RunSpec spec, RuleSet rules, Map<String, String> cliOverrides, RunOutputs out, int joinBound,
             Clock clock) {
         RuleSet runRules = rules.forRun(spec.name());
         List<LineParser> parsers = new ArrayList<>();
@@ -37,6 +37,6 @@ final class Pipelines {
         }
         Decider decider = new Decider(runRules, spec.name(), clock);
         return new RunPipeline(spec.name(), parsers, Detectors.standard(settings(spec, runRules, cliOverrides)),
-                decider, out, new RunCounters(), clock);
+                decider, out, new RunCounters(), clock, joinBound);
     }
 }

@@ -41,7 +41,7 @@ public final class Replay {
             Dispatcher dispatcher = null;
             List<ChannelSpec> channels = new ArrayList<>(c.rules().channels());
             channels.addAll(c.quick());
-            if (c.notify() && !channels.isEmpty()) {
+            if (c.sendNotices() && !channels.isEmpty()) {
                 vertx = Daemon.newVertx(null);
                 dispatcher = new Dispatcher(vertx, state.outboxDir(), channels, journal, c.clock());
                 Daemon.await(dispatcher.start(), 30);
@@ -88,8 +88,8 @@ public final class Replay {
                 history.observe(r);
             }
         };
-        RunPipeline p = Pipelines.build(spec, c.rules(), c.overrides(), out, c.clock());
-        p.decider().setCatchingUp(!c.notify());
+        RunPipeline p = Pipelines.build(spec, c.rules(), c.overrides(), out, 1_000_000, c.clock());
+        p.decider().setCatchingUp(!c.sendNotices());
         journal.append(PendingEvent.run(spec.name(), 0, "started", "replay of " + describe(spec.sources())));
         for (int i = 0; i < spec.sources().size(); i++) {
             Path src = spec.sources().get(i);

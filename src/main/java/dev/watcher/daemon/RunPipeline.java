@@ -49,10 +49,10 @@ final class RunPipeline {
     private int segment;
 
     RunPipeline(String run, List<LineParser> parsers, List<Detector> detectors, Decider decider, RunOutputs out,
-            RunCounters counters, Clock clock) {
+            RunCounters counters, Clock clock, int joinBound) {
         this.run = run;
         this.parsers = List.copyOf(parsers);
-        this.joiner = parsers.size() > 1 ? new RecordJoiner() : null;
+        this.joiner = parsers.size() > 1 ? new RecordJoiner(parsers.size(), joinBound) : null;
         this.detectors = List.copyOf(detectors);
         this.decider = decider;
         this.out = out;

@@ -82,9 +82,31 @@ public record Periodogram(int length, double period, double coarse, FisherG fish
      */
     public static int firstAutocorrelationPeak(double[] x, int n, int minLag, int maxLag, double threshold) {
         int hi = Math.min(maxLag, n - 2);
+        if (hi < Math.max(1, minLag)) {
+            return -1;
+        }
+        double mean = 0;
+        for (int i = 0; i < n; i++) {
+            mean += x[i];
+        }
+        mean /= n;
+        double den = 0;
+        for (int i = 0; i < n; i++) {
+            den += (x[i] - mean) * (x[i] - mean);
+        }
+        if (den == 0) {
+            return -1;
+        }
+        double[] r = new double[hi + 2];
+        for (int lag = Math.max(0, minLag - 1); lag <= hi + 1; lag++) {
+            double num = 0;
+            for (int i = 0; i + lag < n; i++) {
+                num += (x[i] - mean) * (x[i + lag] - mean);
+            }
+            r[lag] = num / den;
+        }
         for (int lag = Math.max(1, minLag); lag <= hi; lag++) {
-            double r = autocorrelation(x, n, lag);
-            if (r > threshold && r >= autocorrelation(x, n, lag - 1) && r >= autocorrelation(x, n, lag + 1)) {
+            if (r[lag] > threshold && r[lag] >= r[lag - 1] && r[lag] >= r[lag + 1]) {
                 return lag;
             }
         }

@@ -1,0 +1,388 @@
+package dev.watcher.detect;
+
+import dev.watcher.detect.stats.RollingWindow;
+import dev.watcher.detect.stats.TheilSen;
+import dev.watcher.model.Detection;
+import dev.watcher.model.DetectionState;
+import dev.watcher.model.IterationRecord;
+import dev.watcher.model.Patterns;
+import dev.watcher.model.Samples;
+import dev.watcher.model.Severity;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.function.Consumer;
+
+/**
+ * {@code converged}: every residual at or below its target for {@code hold} consecutive samples (at least a whole
+ * period of the slowest periodic monitor, so that residuals that dip below target once per cycle do not count)
+ * AND every monitor settled or in a stable periodic state (judged as {@link MonitorSettledDetector} and
+ * {@link MonitorPeriodicDetector} judge, with their parameters). Residuals at target while a monitor still
+ * drifts is not converged: residual reduction alone is an unreliable proxy for the iterative error (Eca et
+ * al. 2019; Kim et al. 1998). A run whose log has no monitors reaches at most a residuals-only verdict
+ * (evidence {@code basis: residuals-only}, and the summary says the monitors are missing). The summary says
+ * the run "meets the configured criteria": judgement stays with the engineer.
+ *
+ * <p>In unsteady runs (records with a step field or an inner counter) a residual sample is a step's last
+ * inner iteration and a monitor sample likewise.
+ *
+ * <p>Forecasts, per equation: the iterations to reach the target from a Theil–Sen fit of log10 r against
+ * the iteration since the last regime change (the segment's start, or the last rise of more than {@code
+ * regime_jump_decades} between samples), within {@code forecast_window} samples, with Sen's 95 % interval;
+ * "not converging" when the interval's upper slope bound is not below zero. Per monitor: the predicted final
+ * value and remaining iterative error (geometric/Aitken estimate, {@link MonitorJudge#settled}).
+ *
+ * <p>Parameters ({@code converged.}): {@code residual_target} (1e-5 absolute, common practice), per equation
+ * {@code residual_target.<equation>}; {@code drop_orders} (0 = off) and {@code drop_orders.<equation>}: when
+ * set, the equation's target is its maximum since the run began divided by 10^drop_orders (for solvers that
+ * print raw residuals); {@code hold} samples (10); {@code every} samples between monitor judgements (10);
+ * {@code resolve_decades} (0.5: a residual must rise this far above its target to count against an open
+ * verdict); {@code clear_checks} (3); {@code forecast_window} (200); {@code forecast_every} (50); {@code
+ * regime_jump_decades} (1.0). Monitor tolerances come from {@code monitor-settled.*} and {@code
+ * monitor-periodic.*}; the relaxed monitor tolerance while open is {@code monitor-settled.resolve_factor} (2).
+ */
+final class ConvergedDetector implements Detector {
+
+    /** One equation's forecast. {@code status}: reached, converging, not converging, unknown. */
+    record Forecast(String status, double iterations, double low, double high, double slopeDecadesPerIter) {
+    }
+
+    private final DetectSettings settings;
+    private final double target;
+    private final double dropOrders;
+    private final int hold;
+    private final int every;
+    private final double resolveDecades;
+    private final int clearChecks;
+    private final int forecastWindow;
+    private final int forecastEvery;
+    private final double regimeJump;
+    private final double monitorResolveFactor;
+    private final MonitorJudge judge;
+    private final MonitorSeries monitors;
+    private final TimeSteps steps = new TimeSteps(Double.POSITIVE_INFINITY);
+
+    private final Map<String, Double> latest = new LinkedHashMap<>();
+    private final Map<String, Integer> atTarget = new HashMap<>();
+    private final Map<String, Double> runMax = new HashMap<>();
+    private final Map<String, double[]> targetSpecs = new HashMap<>();
+    private final Map<String, RollingWindow> logs = new LinkedHashMap<>();
+    private final Map<String, RollingWindow> iters = new HashMap<>();
+    private final Map<String, Forecast> forecasts = new LinkedHashMap<>();
+    private final Map<String, Map<String, Object>> monitorStates = new LinkedHashMap<>();
+    private List<String> waitingFor = List.of();
+    private double longestPeriod;
+    private long samples;
+    private long lastIter;
+    private boolean open;
+    private boolean openResidualsOnly;
+    private int failing;
+    private int segmentSeen;
+
+    ConvergedDetector(DetectSettings s) {
+        String p = Patterns.CONVERGED + ".";
+        this.settings = s;
+        this.target = s.number(p + "residual_target", 1e-5);
+        this.dropOrders = s.number(p + "drop_orders", 0);
+        this.hold = Math.max(1, s.integer(p + "hold", 10));
+        this.every = Math.max(1, s.integer(p + "every", 10));
+        this.resolveDecades = s.number(p + "resolve_decades", 0.5);
+        this.clearChecks = Math.max(1, s.integer(p + "clear_checks", 3));
+        this.forecastWindow = Math.max(10, s.integer(p + "forecast_window", 200));
+        this.forecastEvery = Math.max(1, s.integer(p + "forecast_every", 50));
+        this.regimeJump = s.number(p + "regime_jump_decades", 1.0);
+        this.monitorResolveFactor = Math.max(1, s.number(Patterns.MONITOR_SETTLED + ".resolve_factor", 2));
+        this.judge = new MonitorJudge(s);
+        int window = Math.max(s.integer(Patterns.MONITOR_SETTLED + ".window", 1000),
+                s.integer(Patterns.MONITOR_PERIODIC + ".window", 1024));
+        this.monitors = new MonitorSeries(Math.max(64, window));
+    }
+
+    @Override
+    public void observe(IterationRecord record, Consumer<Detection> out) {
+        if (record.segment() != segmentSeen) {
+            segment(record.segment(), record.iter(), out);
+        }
+        monitors.accept(record);
+        Map<String, Double> sample;
+        long iter;
+        if (record.hasStep() || record.hasInner()) {
+            TimeSteps.Step step = steps.accept(record);
+            if (step == null) {
+                return;
+            }
+            sample = step.floor();
+            iter = step.lastIter();
+        } else {
+            sample = toMap(record.residuals());
+            iter = record.iter();
+        }
+        if (sample.isEmpty()) {
+            return;
+        }
+        addSample(sample, iter);
+        samples++;
+        if (samples % forecastEvery == 0) {
+            updateForecasts();
+        }
+        if (open) {
+            checkOpen(out);
+        } else if (samples % every == 0) {
+            checkClosed(out);
+        }
+    }
+
+    private static Map<String, Double> toMap(Samples s) {
+        Map<String, Double> m = new LinkedHashMap<>();
+        for (int i = 0; i < s.size(); i++) {
+            m.put(s.name(i), s.value(i));
+        }
+        return m;
+    }
+
+    private void addSample(Map<String, Double> sample, long iter) {
+        lastIter = iter;
+        sample.forEach((eq, v) -> {
+            latest.put(eq, v);
+            boolean finite = v > 0 && Double.isFinite(v);
+            if (finite) {
+                runMax.merge(eq, v, Math::max);
+            }
+            atTarget.put(eq, finite && v <= targetOf(eq) ? atTarget.getOrDefault(eq, 0) + 1 : 0);
+            RollingWindow w = logs.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow));
+            RollingWindow it = iters.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow));
+            if (!finite) {
+                w.clear();
+                it.clear();
+                return;
+            }
+            double y = Math.log10(v);
+            if (w.size() > 0 && y - w.last() > regimeJump) {
+                w.clear(); // a new regime: the earlier slope says nothing about the way ahead
+                it.clear();
+            }
+            w.add(y);
+            it.add(iter);
+        });
+    }
+
+    /** The target of an equation: absolute, or orders of magnitude below its maximum when drop orders are set. */
+    double targetOf(String eq) {
+        double[] spec = targetSpecs.computeIfAbsent(eq, k -> new double[] {
+            settings.number(Patterns.CONVERGED + ".drop_orders." + k, dropOrders),
+            settings.number(Patterns.CONVERGED + ".residual_target." + k, target)});
+        if (spec[0] > 0) {
+            Double max = runMax.get(eq);
+            return max == null ? 0 : max * Math.pow(10, -spec[0]);
+        }
+        return spec[1];
+    }
+
+    private boolean residualsHeld() {
+        // with a periodic monitor, the residuals must stay at target over a whole period of it
+        int need = Math.max(hold, (int) Math.ceil(longestPeriod));
+        for (String eq : latest.keySet()) {
+            if (atTarget.getOrDefault(eq, 0) < need) {
+                return false;
+            }
+        }
+        return !latest.isEmpty();
+    }
+
+    private boolean residualsClearlyAbove() {
+        for (Map.Entry<String, Double> e : latest.entrySet()) {
+            double v = e.getValue();
+            if (!(v <= targetOf(e.getKey()) * Math.pow(10, resolveDecades))) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Judges every monitor at the given tolerance scale; fills monitorStates; returns the monitors not ok. */
+    private List<String> judgeMonitors(double scale) {
+        List<String> notOk = new ArrayList<>();
+        double longest = 0;
+        for (String name : monitors.names()) {
+            double[] x = monitors.values(name);
+            MonitorJudge.Settling s = judge.settled(x, x.length, scale);
+            Map<String, Object> st = new LinkedHashMap<>();
+            if (s.settled()) {
+                st.put("state", "settled");
+                st.put("value", s.mean());
+                st.put("half_width", s.halfWidth());
+                st.put("tolerance", s.tolerance());
+                st.put("predicted_final", s.predicted());
+                st.put("remaining_error", s.remainingError());
+            } else {
+                MonitorJudge.Cycles c = judge.periodic(x, x.length, scale);
+                if (c.stable()) {
+                    longest = Math.max(longest, c.period());
+                    st.put("state", "periodic");
+                    st.put("value", c.cycleMean());
+                    st.put("amplitude", c.amplitude());
+                    st.put("period_iterations", c.period() * monitors.iterationsPerSample(name));
+                    st.put("predicted_final", c.cycleMean());
+                    st.put("remaining_error", 0.0);
+                } else {
+                    st.put("state", "not settled");
+                    st.put("reason", s.reason());
+                    st.put("predicted_final", s.predicted());
+                    st.put("remaining_error", s.remainingError());
+                    st.put("half_width", s.halfWidth());
+                    notOk.add(name);
+                }
+            }
+            monitorStates.put(name, st);
+        }
+        longestPeriod = longest;
+        return notOk;
+    }
+
+    private void checkClosed(Consumer<Detection> out) {
+        if (!residualsHeld()) {
+            waitingFor = List.of();
+            return;
+        }
+        List<String> notOk = judgeMonitors(1);
+        waitingFor = notOk;
+        if (!notOk.isEmpty() || !residualsHeld()) {
+            return;
+        }
+        updateForecasts();
+        open = true;
+        openResidualsOnly = monitors.names().isEmpty();
+        failing = 0;
+        String summary = openResidualsOnly
+                ? "residuals meet the configured criteria; the log has no monitors, so this is a residuals-only "
+                        + "verdict: monitors are missing"
+                : String.format(Locale.ROOT, "meets the configured criteria: %d residuals at target and %d monitors "
+                        + "settled or periodic", latest.size(), monitors.names().size());
+        out.accept(new Detection(Patterns.CONVERGED, DetectionState.OPEN, Severity.INFO, lastIter, List.copyOf(
+                latest.keySet()), null, summary, "", evidence()));
+    }
+
+    private void checkOpen(Consumer<Detection> out) {
+        boolean bad = residualsClearlyAbove();
+        if (!bad && samples % every == 0 && !openResidualsOnly) {
+            bad = !judgeMonitors(monitorResolveFactor).isEmpty();
+        } else if (!bad && samples % every != 0) {
+            return;
+        }
+        failing = bad ? failing + 1 : 0;
+        if (failing >= clearChecks) {
+            open = false;
+            failing = 0;
+            out.accept(new Detection(Patterns.CONVERGED, DetectionState.RESOLVED, Severity.INFO, lastIter,
+                    List.copyOf(latest.keySet()), null, "no longer meets the configured criteria", "", evidence()));
+        }
+    }
+
+    private Map<String, Object> evidence() {
+        Map<String, Object> e = new LinkedHashMap<>();
+        e.put("basis", monitors.names().isEmpty() ? "residuals-only" : "residuals-and-monitors");
+        if (monitors.names().isEmpty()) {
+            e.put("monitors", "missing");
+        }
+        latest.forEach((eq, v) -> {
+            String k = EvidenceNames.key(eq);
+            e.put(k + "_residual", EvidenceNames.round(v));
+            e.put(k + "_target", EvidenceNames.round(targetOf(eq)));
+            Forecast f = forecasts.get(eq);
+            if (f != null) {
+                e.put(k + "_forecast", f.status());
+                if (Double.isFinite(f.iterations())) {
+                    e.put(k + "_iterations_to_target", Math.round(f.iterations()));
+                }
+            }
+        });
+        monitorStates.forEach((name, st) -> {
+            String k = EvidenceNames.key(name);
+            st.forEach((key, v) -> e.put(k + "_" + key, v instanceof Double d ? EvidenceNames.round(d) : v));
+        });
+        return e;
+    }
+
+    private void updateForecasts() {
+        for (String eq : logs.keySet()) {
+            forecasts.put(eq, forecast(eq));
+        }
+    }
+
+    private Forecast forecast(String eq) {
+        Double v = latest.get(eq);
+        double t = targetOf(eq);
+        if (v != null && v > 0 && v <= t) {
+            return new Forecast("reached", 0, 0, 0, Double.NaN);
+        }
+        RollingWindow w = logs.get(eq);
+        if (w == null || w.size() < 10 || !(t > 0)) {
+            return new Forecast("unknown", Double.NaN, Double.NaN, Double.NaN, Double.NaN);
+        }
+        double[] y = w.toArray();
+        double[] x = iters.get(eq).toArray();
+        TheilSen ts = TheilSen.fit(x, y, y.length, 0.95);
+        if (!(ts.high() < 0)) {
+            return new Forecast("not converging", Double.NaN, Double.NaN, Double.NaN, ts.slope());
+        }
+        double level = ts.intercept() + ts.slope() * x[x.length - 1];
+        double gap = Math.log10(t) - level;
+        if (gap >= 0) {
+            return new Forecast("reached", 0, 0, 0, ts.slope());
+        }
+        return new Forecast("converging", gap / ts.slope(), gap / ts.low(), gap / ts.high(), ts.slope());
+    }
+
+    @Override
+    public void segment(int segment, long iter, Consumer<Detection> out) {
+        segmentSeen = segment;
+        steps.reset();
+        monitors.reset();
+        logs.values().forEach(RollingWindow::clear);
+        iters.values().forEach(RollingWindow::clear);
+        atTarget.clear();
+    }
+
+    /**
+     * {@code verdict} (converged, residuals-only, held back, not yet), {@code waiting_for} (monitors that hold
+     * back a verdict), {@code equations} (per equation: residual, target, forecast status, iterations,
+     * iterations_low, iterations_high, slope_decades_per_iteration) and {@code monitors} (per monitor: state,
+     * value, predicted_final, remaining_error, ...).
+     */
+    @Override
+    public Map<String, Object> snapshot() {
+        Map<String, Object> m = new LinkedHashMap<>();
+        String verdict = open ? (openResidualsOnly ? "residuals-only" : "converged")
+                : (!waitingFor.isEmpty() ? "held back" : "not yet");
+        m.put("verdict", verdict);
+        m.put("waiting_for", waitingFor);
+        Map<String, Object> eqs = new LinkedHashMap<>();
+        latest.forEach((eq, v) -> {
+            Map<String, Object> f = new LinkedHashMap<>();
+            f.put("residual", v);
+            f.put("target", targetOf(eq));
+            Forecast fc = forecasts.get(eq);
+            if (fc != null) {
+                f.put("forecast", fc.status());
+                f.put("iterations", fc.iterations());
+                f.put("iterations_low", fc.low());
+                f.put("iterations_high", fc.high());
+                f.put("slope_decades_per_iteration", fc.slopeDecadesPerIter());
+            }
+            eqs.put(eq, f);
+        });
+        m.put("equations", eqs);
+        Map<String, Object> mons = new LinkedHashMap<>();
+        monitorStates.forEach((k, v) -> mons.put(k, Map.copyOf(v)));
+        m.put("monitors", mons);
+        return m;
+    }
+
+    /** The latest forecast of an equation, or null. */
+    Forecast forecastOf(String eq) {
+        return forecasts.get(eq);
+    }
+}

@@ -1,0 +1,196 @@
+package dev.watcher.detect;
+
+import dev.watcher.model.IterationRecord;
+import dev.watcher.model.Samples;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Random;
+
+/**
+ * Small real iterative numerics whose histories the detector tests judge. Each method runs the iteration and
+ * records what a solver log would show: residuals per equation (RMS of the discrete equations' residual,
+ * normalised by its largest value over the first five iterations, as solvers commonly print them) and
+ * monitors. These are our own test problems; their outcomes are facts of the numerics, not invented numbers.
+ */
+final class SmallSolvers {
+
+    private SmallSolvers() {
+    }
+
+    /**
+     * Steady 1D Poisson problem -u'' = 1 on (0, 1), u(0) = u(1) = 0, {@code n} interior points, solved by
+     * Gauss–Seidel sweeps from a rough start (uniform noise of amplitude {@code roughness}). The rough part
+     * of the error dies in a few sweeps and takes most of the normalised residual with it, while the smooth
+     * part decays by about 1 - pi^2 h^2 per sweep: the residual falls below 1e-5 long before the centre value
+     * (monitor {@code centre-value}) stops moving. A second, independent equation (-v'' = 2, also from a rough
+     * start) gives a second residual and the monitor {@code species-mean}.
+     */
+    static List<IterationRecord> poissonGaussSeidel(int n, int sweeps, double roughness, long seed) {
+        double h = 1.0 / (n + 1);
+        Random rng = new Random(seed);
+        double[] u = new double[n];
+        double[] v = new double[n];
+        for (int i = 0; i < n; i++) {
+            u[i] = roughness * (2 * rng.nextDouble() - 1);
+            v[i] = roughness * (2 * rng.nextDouble() - 1);
+        }
+        List<String> eqs = List.of("heat", "species");
+        List<String> mons = List.of("centre-value", "species-mean");
+        List<IterationRecord> out = new ArrayList<>();
+        double nu = 0;
+        double nv = 0;
+        for (int it = 1; it <= sweeps; it++) {
+            gaussSeidel(u, 1.0, h);
+            gaussSeidel(v, 2.0, h);
+            double ru = rms(u, 1.0, h);
+            double rv = rms(v, 2.0, h);
+            if (it <= 5) {
+                nu = Math.max(nu, ru);
+                nv = Math.max(nv, rv);
+            }
+            double mean = 0;
+            for (double x : v) {
+                mean += x;
+            }
+            out.add(IterationRecord.steady(it, new Samples(eqs, new double[] {ru / nu, rv / nv}),
+                    new Samples(mons, new double[] {u[n / 2], mean / n})));
+        }
+        return out;
+    }
+
+    /** The same problem with only residuals in the log (no monitors). */
+    static List<IterationRecord> withoutMonitors(List<IterationRecord> history) {
+        List<IterationRecord> out = new ArrayList<>();
+        for (IterationRecord r : history) {
+            out.add(new IterationRecord(r.iter(), r.step(), r.time(), r.inner(), r.residuals(), Samples.EMPTY,
+                    r.segment(), r.line()));
+        }
+        return out;
+    }
+
+    private static void gaussSeidel(double[] u, double f, double h) {
+        int n = u.length;
+        for (int i = 0; i < n; i++) {
+            double e = i + 1 < n ? u[i + 1] : 0;
+            double w = i > 0 ? u[i - 1] : 0;
+            u[i] = (f * h * h + e + w) / 2;
+        }
+    }
+
+    private static double rms(double[] u, double f, double h) {
+        int n = u.length;
+        double s = 0;
+        for (int i = 0; i < n; i++) {
+            double e = i + 1 < n ? u[i + 1] : 0;
+            double w = i > 0 ? u[i - 1] : 0;
+            double r = f - (2 * u[i] - e - w) / (h * h);
+            s += r * r;
+        }
+        return Math.sqrt(s / n);
+    }
+
+    /**
+     * Unsteady 1D reaction–diffusion u_t = nu u_xx - k u + f(x) on (0, 1) with u = 0 at both ends: backward
+     * Euler for the diffusion, the reaction term lagged to the old time level (explicit), {@code inner}
+     * Gauss–Seidel sweeps per step. The explicit reaction is stable only for dt k &lt; 2 (roughly: the
+     * implicit diffusion damps a little): above it the departure from the steady state grows by about
+     * |1 - dt k| per step, so each step starts from a larger residual (rising peaks) while the inner sweeps
+     * still reduce the residual within the step. Residuals: {@code concentration}; monitor: {@code
+     * centre-concentration} at each inner iteration. Stops early when the solution overflows. With a large
+     * diffusivity {@code nu} the sweeps meet a diffusion-dominated system, on which Gauss–Seidel converges
+     * only by about 1 - O(h^2) per sweep: a few sweeps then hardly reduce the residual within a step.
+     */
+    static List<IterationRecord> reactionDiffusion(double dt, int steps, int inner, double nu) {
+        int n = 32;
+        double k = 1.0;
+        double h = 1.0 / (n + 1);
+        double[] f = new double[n];
+        for (int i = 0; i < n; i++) {
+            f[i] = 1.0 + 0.5 * Math.sin(Math.PI * (i + 1) * h);
+        }
+        double[] u = new double[n];
+        List<String> eqs = List.of("concentration");
+        List<String> mons = List.of("centre-concentration");
+        List<IterationRecord> out = new ArrayList<>();
+        long iter = 0;
+        double norm = 0;
+        double ap = 1 / dt + 2 * nu / (h * h);
+        for (int s = 1; s <= steps; s++) {
+            double[] un = u.clone();
+            double[] src = new double[n];
+            for (int i = 0; i < n; i++) {
+                src[i] = f[i] - k * un[i];
+            }
+            for (int it = 1; it <= inner; it++) {
+                double r = 0;
+                for (int i = 0; i < n; i++) {
+                    double e = i + 1 < n ? u[i + 1] : 0;
+                    double w = i > 0 ? u[i - 1] : 0;
+                    double ri = (u[i] - un[i]) / dt - nu * (e - 2 * u[i] + w) / (h * h) - src[i];
+                    r += ri * ri;
+                }
+                r = Math.sqrt(r / n);
+                iter++;
+                if (iter <= 5) {
+                    norm = Math.max(norm, r);
+                }
+                if (!Double.isFinite(r) || r / norm > 1e12) {
+                    return out;
+                }
+                out.add(new IterationRecord(iter, s, s * dt, it, new Samples(eqs, new double[] {r / norm}),
+                        new Samples(mons, new double[] {u[n / 2]}), 0, iter));
+                for (int i = 0; i < n; i++) {
+                    double e = i + 1 < n ? u[i + 1] : 0;
+                    double w = i > 0 ? u[i - 1] : 0;
+                    u[i] = (un[i] / dt + src[i] + nu / (h * h) * (e + w)) / ap;
+                }
+            }
+        }
+        return out;
+    }
+
+    /**
+     * The Van der Pol oscillator x'' - mu (1 - x^2) x' + x = 0, mu = 1, written as x' = y, y' = mu (1 - x^2) y
+     * - x, integrated with the trapezoidal rule; each step's implicit equations are solved by {@code inner}
+     * fixed-point (Picard) iterations. Residuals: the two equations' residuals at each inner iteration
+     * (normalised as above); monitor {@code position} = x. The motion settles onto the limit cycle, whose
+     * period for mu = 1 is about 6.663 (e.g. Strogatz, Nonlinear Dynamics and Chaos [memory]), so the
+     * residual peaks at step starts are periodic, not rising.
+     */
+    static List<IterationRecord> vanDerPol(double dt, int steps, int inner, double x0) {
+        double mu = 1.0;
+        double x = x0;
+        double y = 0;
+        List<String> eqs = List.of("position-eq", "velocity-eq");
+        List<String> mons = List.of("position");
+        List<IterationRecord> out = new ArrayList<>();
+        long iter = 0;
+        double n1 = 0;
+        double n2 = 0;
+        for (int s = 1; s <= steps; s++) {
+            double fx0 = y;
+            double fy0 = mu * (1 - x * x) * y - x;
+            double xk = x;
+            double yk = y;
+            for (int it = 1; it <= inner; it++) {
+                double fx = yk;
+                double fy = mu * (1 - xk * xk) * yk - xk;
+                double r1 = Math.abs(xk - x - 0.5 * dt * (fx0 + fx));
+                double r2 = Math.abs(yk - y - 0.5 * dt * (fy0 + fy));
+                iter++;
+                if (iter <= 5) {
+                    n1 = Math.max(n1, r1);
+                    n2 = Math.max(n2, r2);
+                }
+                out.add(new IterationRecord(iter, s, s * dt, it,
+                        new Samples(eqs, new double[] {n1 > 0 ? r1 / n1 : 1.0, n2 > 0 ? r2 / n2 : 1.0}),
+                        new Samples(mons, new double[] {xk}), 0, iter));
+                xk = x + 0.5 * dt * (fx0 + fx);
+                yk = y + 0.5 * dt * (fy0 + fy);
+            }
+            x = xk;
+            y = yk;
+        }
+        return out;
+    }
+}

@@ -179,6 +179,105 @@ public final class Numbers {
         return slowPath(s, from, mantissaEnd, to, exponent, fortran);
     }
 
+    /**
+     * Reads the token starting at {@code from} (not a blank) up to the next blank or carriage return (or
+     * {@code to}) in one pass, storing the token's end in {@code end[0]}. Same results as
+     * {@link #parse(CharSequence, int, int)} over the token; the table parser's hot path.
+     */
+    static double scan(CharSequence s, int from, int to, int[] end) {
+        int i = from;
+        char c = s.charAt(i);
+        boolean negative = false;
+        if (c == '-' || c == '+') {
+            negative = c == '-';
+            i++;
+        }
+        long mantissa = 0;
+        int significant = 0;
+        int fractionDigits = 0;
+        boolean digits = false;
+        boolean dot = false;
+        for (; i < to; i++) {
+            c = s.charAt(i);
+            if (c >= '0' && c <= '9') {
+                if (significant >= 18) {
+                    return scanSlow(s, from, to, end);
+                }
+                digits = true;
+                if (mantissa != 0 || c != '0') {
+                    significant++;
+                }
+                mantissa = mantissa * 10 + (c - '0');
+                if (dot) {
+                    fractionDigits++;
+                }
+            } else if (c == '.' && !dot) {
+                dot = true;
+            } else {
+                break;
+            }
+        }
+        int exponent = 0;
+        if (i < to && (c == 'e' || c == 'E')) {
+            i++;
+            boolean expNegative = false;
+            if (i < to) {
+                c = s.charAt(i);
+                if (c == '+' || c == '-') {
+                    expNegative = c == '-';
+                    i++;
+                }
+            }
+            int first = i;
+            for (; i < to; i++) {
+                c = s.charAt(i);
+                if (c < '0' || c > '9') {
+                    break;
+                }
+                exponent = exponent * 10 + (c - '0');
+            }
+            if (i == first || i - first > 4) {
+                return scanSlow(s, from, to, end);
+            }
+            if (expNegative) {
+                exponent = -exponent;
+            }
+        }
+        if (i < to) {
+            c = s.charAt(i);
+            if (c != ' ' && c != '\t' && c != '\r') {
+                return scanSlow(s, from, to, end);
+            }
+        }
+        if (!digits) {
+            return scanSlow(s, from, to, end);
+        }
+        end[0] = i;
+        if (mantissa == 0) {
+            return negative ? -0.0 : 0.0;
+        }
+        int k = exponent - fractionDigits;
+        if (mantissa < TWO_53 && k >= -22 && k <= 22) {
+            double m = mantissa;
+            double v = k < 0 ? m / POW10[-k] : m * POW10[k];
+            return negative ? -v : v;
+        }
+        return parse(s, from, i);
+    }
+
+    private static double scanSlow(CharSequence s, int from, int to, int[] end) {
+        int i = from;
+        while (i < to) {
+            char c = s.charAt(i);
+            if (c == ' ' || c == '\t' || c == '\r') {
+                break;
+            }
+            i++;
+        }
+        end[0] = i;
+        return parse(s, from, i);
+    }
+
     private static double slowPath(CharSequence s, int from, int mantissaEnd, int to, long exponent,
             boolean fortran) {
         try {

@@ -29,6 +29,7 @@ final class TableParser implements LineParser {
     private final char delimiter;
     private final String comment;
 
+    private final int[] end = new int[1];
     private int[] starts = new int[32];
     private int[] ends = new int[32];
     private int count;
@@ -48,6 +49,9 @@ final class TableParser implements LineParser {
     @Override
     public void accept(CharSequence line, long lineNo, ParseSink sink) {
         int n = line.length();
+        if (delimiter == 0 && header != null && header.fast && fastRow(line, n, lineNo, sink)) {
+            return;
+        }
         int pos = 0;
         while (true) {
             // A bare carriage return inside a line (a progress counter redrawn in place) ends a piece; each
@@ -61,6 +65,105 @@ final class TableParser implements LineParser {
             }
             pos = stop + 1;
         }
+    }
+
+    /**
+     * The hot path for an ordinary data row of a blank-separated table: splits and parses in one pass,
+     * straight from the line. Anything unusual (not a digit first, a rank prefix, a carriage return before
+     * the end, a field count or value that is wrong) returns false before emitting anything, and the general
+     * path reads the line again and reports it.
+     */
+    private boolean fastRow(CharSequence s, int n, long lineNo, ParseSink sink) {
+        Header h = header;
+        int i = 0;
+        char c = 0;
+        while (i < n && ((c = s.charAt(i)) == ' ' || c == '\t')) {
+            i++;
+        }
+        if (i == n || c < '0' || c > '9') {
+            return false;
+        }
+        int[] kinds = h.kinds;
+        int[] slots = h.slotOf;
+        int columns = kinds.length;
+        double[] res = new double[h.resNames.size()];
+        double[] mon = new double[h.monNames.size()];
+        long iter = -1;
+        long step = IterationRecord.NONE;
+        long inner = IterationRecord.NONE;
+        double time = Double.NaN;
+        int k = 0;
+        int[] end = this.end;
+        while (true) {
+            while (i < n && ((c = s.charAt(i)) == ' ' || c == '\t')) {
+                i++;
+            }
+            if (i == n) {
+                break;
+            }
+            if (c == '\r') {
+                int j = i + 1;
+                while (j < n && ((c = s.charAt(j)) == ' ' || c == '\t' || c == '\r')) {
+                    j++;
+                }
+                if (j < n) {
+                    return false; // a progress line redrawn in place: the general path splits it
+                }
+                break;
+            }
+            if (k == columns) {
+                return false;
+            }
+            double v = Numbers.scan(s, i, n, end);
+            if (Numbers.isMalformed(v)) {
+                return false;
+            }
+            switch (kinds[k]) {
+                case Header.RESIDUAL:
+                    res[slots[k]] = v;
+                    break;
+                case Header.MONITOR:
+                    mon[slots[k]] = v;
+                    break;
+                case Header.ITERATION:
+                    iter = counter(v);
+                    if (iter < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.STEP:
+                    step = counter(v);
+                    if (step < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.INNER:
+                    inner = counter(v);
+                    if (inner < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.TIME:
+                    time = v;
+                    break;
+                default:
+                    break;
+            }
+            i = end[0];
+            k++;
+        }
+        if (k != columns) {
+            return false;
+        }
+        int segment = segments.before(iter, lineNo, sink);
+        sink.record(new IterationRecord(iter, step, time, inner,
+                res.length == 0 ? Samples.EMPTY : new Samples(h.resNames, res),
+                mon.length == 0 ? Samples.EMPTY : new Samples(h.monNames, mon), segment, lineNo));
+        return true;
+    }
+
+    private static long counter(double v) {
+        return v >= 0 && v < 9.0e15 && v == Math.rint(v) ? (long) v : -1;
     }
 
     private int splitBlanks(CharSequence s, int from, int to) {
@@ -353,7 +456,18 @@ final class TableParser implements LineParser {
 
     /** One header's column roles, computed once and shared by every row under it. */
     private static final class Header {
+        static final int IGNORE = 0;
+        static final int ITERATION = 1;
+        static final int STEP = 2;
+        static final int TIME = 3;
+        static final int INNER = 4;
+        static final int RESIDUAL = 5;
+        static final int MONITOR = 6;
+
         final String[] names;
+        final int[] kinds;  // per column, for the hot path
+        final int[] slotOf; // per column: index in its residuals or monitors array
+        final boolean fast; // no repeated names: the hot path applies
         final int iterCol;
         final int stepCol;
         final int timeCol;
@@ -396,6 +510,29 @@ final class TableParser implements LineParser {
             List<String> mn = new ArrayList<>();
             monSlots = slots(names, monCols, mn);
             monNames = List.copyOf(mn);
+            kinds = new int[names.length];
+            slotOf = new int[names.length];
+            for (int j = 0; j < resCols.length; j++) {
+                kinds[resCols[j]] = RESIDUAL;
+                slotOf[resCols[j]] = j;
+            }
+            for (int j = 0; j < monCols.length; j++) {
+                kinds[monCols[j]] = MONITOR;
+                slotOf[monCols[j]] = j;
+            }
+            if (stepCol >= 0) {
+                kinds[stepCol] = STEP;
+            }
+            if (timeCol >= 0) {
+                kinds[timeCol] = TIME;
+            }
+            if (innerCol >= 0) {
+                kinds[innerCol] = INNER;
+            }
+            if (iterCol >= 0) {
+                kinds[iterCol] = ITERATION;
+            }
+            fast = resSlots == null && monSlots == null;
         }
 
         private static int[] slots(String[] names, int[] cols, List<String> unique) {

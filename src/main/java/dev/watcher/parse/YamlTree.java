@@ -75,14 +75,26 @@ final class YamlTree {
             return root;
         } catch (JsonProcessingException e) {
             JsonLocation l = e.getLocation();
-            String msg = e.getOriginalMessage();
-            int nl = msg == null ? -1 : msg.indexOf('\n');
             throw new InputFileException(file, l == null ? 1 : Math.max(1, l.getLineNr()),
-                    l == null ? 1 : Math.max(1, l.getColumnNr()),
-                    "valid YAML (" + (nl < 0 ? msg : msg.substring(0, nl)).strip() + ")");
+                    l == null ? 1 : Math.max(1, l.getColumnNr()), "valid YAML (" + yamlProblem(e) + ")");
         } catch (IOException e) {
             throw new InputFileException(file, 1, 1, "readable YAML (" + e.getMessage() + ")");
         }
+    }
+
+    /** SnakeYAML's message without its excerpt lines: "while parsing X ... expected Y, but found Z". */
+    private static String yamlProblem(JsonProcessingException e) {
+        String msg = String.valueOf(e.getOriginalMessage());
+        StringBuilder b = new StringBuilder();
+        for (String line : msg.split("\n")) {
+            String t = line.strip();
+            if (t.isEmpty() || t.startsWith("in '") || t.startsWith("^") || line.startsWith("    ")) {
+                continue; // position lines and the quoted excerpt: the position is given separately
+            }
+            b.append(b.length() == 0 ? "" : "; ").append(t);
+        }
+        String out = b.toString();
+        return out.length() > 200 ? out.substring(0, 200) + "..." : out;
     }
 
     private static Node node(String file, JsonParser p, JsonToken t, String[] lines)

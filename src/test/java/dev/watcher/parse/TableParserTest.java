@@ -218,4 +218,32 @@ class TableParserTest {
         ListSink s = ListSink.run(builtIn(), "# written by the rooftop array case", "# iter cont mom", "1 1 2");
         assertEquals(List.of("cont", "mom"), s.records.get(0).residuals().names());
     }
+
+    @Test
+    void readsRandomRowsExactlyAsTheJdkReadsEachField() {
+        // Reference: Double.parseDouble of the JDK on every field of every row.
+        java.util.SplittableRandom rnd = new java.util.SplittableRandom(42);
+        String[] formats = {"%.4e", "%.9e", "%.5f", "%.17g", "%.3E"};
+        LineParser p = builtIn();
+        ListSink s = new ListSink();
+        p.accept("# it a b c d", 1, s);
+        List<double[]> expected = new java.util.ArrayList<>();
+        for (int row = 0; row < 5000; row++) {
+            StringBuilder line = new StringBuilder().append(row + 1);
+            double[] want = new double[4];
+            for (int c = 0; c < 4; c++) {
+                double v = Math.pow(10, rnd.nextDouble(-30, 30)) * (rnd.nextInt(5) == 0 ? -1 : 1);
+                String f = String.format(java.util.Locale.ROOT, formats[rnd.nextInt(formats.length)], v);
+                want[c] = Double.parseDouble(f);
+                line.append(rnd.nextBoolean() ? " " : "\t  ").append(f);
+            }
+            expected.add(want);
+            p.accept(line + (row % 7 == 0 ? "\r" : ""), row + 2, s);
+        }
+        assertEquals(5000, s.records.size());
+        for (int row = 0; row < 5000; row++) {
+            org.junit.jupiter.api.Assertions.assertArrayEquals(expected.get(row),
+                    s.records.get(row).residuals().values(), "row " + row);
+        }
+    }
 }

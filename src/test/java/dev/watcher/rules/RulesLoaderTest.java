@@ -258,4 +258,33 @@ class RulesLoaderTest {
         assertAt(failure("kind: rules\ntune:\n  converged:\n    Residual-Target: 1e-5\n"), 4, 5, "lower_snake_case");
         assertAt(failure("kind: rules\ntune:\n  converged:\n    residual_target: [1, 2]\n"), 4, 22, "a single value");
     }
+    @Test
+    void channelNeedsExactlyOneKindAndMailNeedsAPasswordSourceBesideAUser() {
+        assertAt(failure("kind: rules\nchannels:\n  - name: x\n    floor: warning\n"), 3, 5,
+                "exactly one of `webhook` or `mail`");
+        String mail = "kind: rules\nchannels:\n  - name: m\n    mail:\n      host: 127.0.0.1\n      user: bob\n"
+                + "      from: a@b.c\n      to: c@d.e\n";
+        assertAt(failure(mail), 6, 13, "`password-file` or `password-env`");
+        assertAt(failure(mail.replace("      user: bob\n", "      port: 70000\n")), 6, 13, "between 1 and 65535");
+        assertAt(failure(mail.replace("      user: bob\n", "").replace("to: c@d.e", "to: nobody")), 7, 11,
+                "a mail address");
+    }
+
+    @Test
+    void channelNamesFromTheBaseCountOnlyWhenExtending() throws Exception {
+        RuleSet base = RulesLoader.load("base.yaml", "kind: rules\nchannels:\n  - name: ops\n    webhook:\n"
+                + "      url-env: OPS_HOOK\n", null);
+        String user = "kind: rules\nextends: default\npatterns:\n  converged: {send-to: [ops]}\n";
+        RuleSet r = RulesLoader.load("my.yaml", user, base);
+        assertEquals(List.of("ops"), r.routes(Patterns.CONVERGED));
+        assertEquals("OPS_HOOK", ((WebhookSpec) r.channels().get(0)).url().env());
+        InputFileException e = assertThrows(InputFileException.class,
+                () -> RulesLoader.load("my.yaml", user.replace("extends: default\n", ""), base));
+        assertAt(e, 3, 25, "declared channel");
+    }
+
+    @Test
+    void emptyFileSaysWhatItMisses() {
+        assertAt(failure(""), 1, 1, "`kind: rules`");
+    }
 }

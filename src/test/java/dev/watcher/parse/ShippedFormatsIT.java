@@ -81,4 +81,45 @@ class ShippedFormatsIT {
         assertEquals(Map.of("vmid", 0.011), s.records.get(1).monitors().toMap());
         assertTrue(s.malformed.isEmpty());
     }
+
+    @Test
+    void passLineReadsTheUnsteadyVariantWithStepTimeAndSweep() throws Exception {
+        ListSink s = ListSink.run(load("pass-line.yaml").newParser(),
+                "~ pass 1203 | step 12 | t 6.0000e-02 | sweep 3 | cont 3.200e-02 | mom-x 1.100e-01 "
+                        + "| probe vmid=0.213400 m/s | probe lid_shear=1.25000 N",
+                "~ pass 1204 | step 12 | t 6.0000e-02 | sweep 4 | cont NaN | mom-x Infinity | probe vmid=0.2135 m/s");
+        IterationRecord r = s.records.get(0);
+        assertEquals(1203, r.iter());
+        assertEquals(12, r.step());
+        assertEquals(0.06, r.time());
+        assertEquals(3, r.inner());
+        assertEquals(Map.of("cont", 3.2e-02, "mom-x", 1.1e-01), r.residuals().toMap());
+        assertEquals(Map.of("vmid", 0.2134, "lid_shear", 1.25), r.monitors().toMap());
+        double[] v = s.records.get(1).residuals().values();
+        assertTrue(Double.isNaN(v[0]));
+        assertEquals(Double.POSITIVE_INFINITY, v[1]);
+        assertTrue(s.malformed.isEmpty());
+    }
+
+    @Test
+    void tableReadsUnsteadyColumnsAndARestartWithAReprintedHeader() throws Exception {
+        ListSink s = ListSink.run(load("table.yaml").newParser(),
+                "# pass     step         time inner         cont        mom-x         vmid     lid_shear",
+                "    1200     12   6.0000e-02     3   3.2000e-02   1.1000e-01    2.1340e-01    1.2500e+00",
+                "    1201     12   6.0000e-02     4   3.1000e-02   1.0000e-01    2.1350e-01    1.2510e+00",
+                "# restart from snapshot pass 800",
+                "# pass     step         time inner         cont        mom-x         vmid     lid_shear",
+                "     801      8   4.0000e-02     1   5.0000e-02   2.0000e-01    2.1000e-01    1.2000e+00");
+        assertEquals(3, s.records.size());
+        IterationRecord r = s.records.get(0);
+        assertEquals(12, r.step());
+        assertEquals(0.06, r.time());
+        assertEquals(3, r.inner());
+        assertEquals(List.of("cont", "mom-x"), r.residuals().names());
+        assertEquals(List.of("vmid", "lid_shear"), r.monitors().names());
+        assertEquals(List.of(0, 0, 1), s.records.stream().map(IterationRecord::segment).toList());
+        assertEquals(1, s.segments.size());
+        assertEquals(5, s.segments.get(0).line());
+        assertTrue(s.malformed.isEmpty());
+    }
 }

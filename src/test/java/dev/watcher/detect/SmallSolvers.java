@@ -23,7 +23,8 @@ final class SmallSolvers {
      * of the error dies in a few sweeps and takes most of the normalised residual with it, while the smooth
      * part decays by about 1 - pi^2 h^2 per sweep: the residual falls below 1e-5 long before the centre value
      * (monitor {@code centre-value}) stops moving. A second, independent equation (-v'' = 2, also from a rough
-     * start) gives a second residual and the monitor {@code species-mean}.
+     * start) gives a second residual and the monitor {@code species-mean}. The monitor {@code asymmetry} =
+     * u(x) - u(1 - x) at mirrored points goes to zero (the problem is symmetric): a monitor near zero.
      */
     static List<IterationRecord> poissonGaussSeidel(int n, int sweeps, double roughness, long seed) {
         double h = 1.0 / (n + 1);
@@ -35,7 +36,7 @@ final class SmallSolvers {
             v[i] = roughness * (2 * rng.nextDouble() - 1);
         }
         List<String> eqs = List.of("heat", "species");
-        List<String> mons = List.of("centre-value", "species-mean");
+        List<String> mons = List.of("centre-value", "species-mean", "asymmetry");
         List<IterationRecord> out = new ArrayList<>();
         double nu = 0;
         double nv = 0;
@@ -53,7 +54,31 @@ final class SmallSolvers {
                 mean += x;
             }
             out.add(IterationRecord.steady(it, new Samples(eqs, new double[] {ru / nu, rv / nv}),
-                    new Samples(mons, new double[] {u[n / 2], mean / n})));
+                    new Samples(mons, new double[] {u[n / 2], mean / n, u[n / 4] - u[n - 1 - n / 4]})));
+        }
+        return out;
+    }
+
+    /** The records with the step and inner fields removed, as a log that prints neither would give them. */
+    static List<IterationRecord> withoutStepFields(List<IterationRecord> history, boolean keepInner) {
+        List<IterationRecord> out = new ArrayList<>();
+        for (IterationRecord r : history) {
+            out.add(new IterationRecord(r.iter(), IterationRecord.NONE, Double.NaN,
+                    keepInner ? r.inner() : IterationRecord.NONE, r.residuals(), r.monitors(), r.segment(), r.line()));
+        }
+        return out;
+    }
+
+    /** The records with every residual multiplied by {@code factor}, as a solver printing raw residuals would. */
+    static List<IterationRecord> scaledResiduals(List<IterationRecord> history, double factor) {
+        List<IterationRecord> out = new ArrayList<>();
+        for (IterationRecord r : history) {
+            double[] v = r.residuals().values().clone();
+            for (int i = 0; i < v.length; i++) {
+                v[i] *= factor;
+            }
+            out.add(new IterationRecord(r.iter(), r.step(), r.time(), r.inner(),
+                    new Samples(r.residuals().names(), v), r.monitors(), r.segment(), r.line()));
         }
         return out;
     }

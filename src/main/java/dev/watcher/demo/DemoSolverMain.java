@@ -1,0 +1,223 @@
+package dev.watcher.demo;
+
+import java.io.BufferedWriter;
+import java.io.IOException;
+import java.io.OutputStreamWriter;
+import java.io.PrintStream;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardOpenOption;
+import java.util.LinkedHashMap;
+import java.util.Map;
+import java.util.concurrent.CountDownLatch;
+import java.util.concurrent.TimeUnit;
+
+/**
+ * The demo solver as a child process: runs one {@link Scenario} and writes its log live, one flushed line at
+ * a time.
+ *
+ * <pre>
+ * java -cp watcher.jar dev.watcher.demo.DemoSolverMain --scenario NAME --layout jsonl|pass-line|sweep-block|table
+ *      --out FILE [--pace-ms N] [--iterations N]
+ * </pre>
+ *
+ * <p>{@code --pace-ms} sleeps between iterations so a watcher sees the file grow (the full-speed run takes
+ * about a second). The process stops early, after finishing the line it is writing, on SIGTERM (a shutdown
+ * hook) or when a file named {@value #HALT_FILE} appears in the folder of the output file; in the second case
+ * it writes a closing note and exits 0. Exit codes: 0 finished or halted, 2 bad usage, 3 I/O failure, 4 the
+ * numerics blew up (non-finite residuals; the log ends with them).
+ */
+public final class DemoSolverMain {
+
+    /** Name of the stop file the solver polls for beside its log (our own convention). */
+    public static final String HALT_FILE = "halt.request";
+
+    /** Exit status when the run ended because its residuals became non-finite. */
+    public static final int EXIT_BLOWUP = 4;
+
+    private DemoSolverMain() {
+    }
+
+    public static void main(String[] args) {
+        int code = run(args, System.err);
+        if (code != 0) {
+            System.exit(code);
+        }
+    }
+
+    /** Runs with the given arguments; returns the exit status (the hook path exits on its own). */
+    static int run(String[] args, PrintStream err) {
+        Map<String, String> opts = new LinkedHashMap<>();
+        for (int i = 0; i < args.length; i++) {
+            String a = args[i];
+            if (a.equals("--help") || a.equals("-h")) {
+                err.println(usage());
+                return 0;
+            }
+            if (!a.startsWith("--") || i + 1 >= args.length) {
+                err.println("demo solver: unexpected argument '" + a + "'\n" + usage());
+                return 2;
+            }
+            opts.put(a.substring(2), args[++i]);
+        }
+        Scenario scenario;
+        LogWriter.Layout layout;
+        Path outFile;
+        long pace;
+        int iterations;
+        try {
+            if (!opts.containsKey("scenario") || !opts.containsKey("out")) {
+                throw new IllegalArgumentException("--scenario and --out are required");
+            }
+            scenario = Scenario.byId(opts.remove("scenario"));
+            layout = LogWriter.Layout.byId(opts.getOrDefault("layout", "jsonl"));
+            opts.remove("layout");
+            outFile = Path.of(opts.remove("out"));
+            pace = Long.parseLong(opts.getOrDefault("pace-ms", "0"));
+            opts.remove("pace-ms");
+            iterations = Integer.parseInt(opts.getOrDefault("iterations", Integer.toString(scenario.iterations())));
+            opts.remove("iterations");
+            if (!opts.isEmpty()) {
+                throw new IllegalArgumentException("unknown option --" + opts.keySet().iterator().next());
+            }
+            if (pace < 0 || iterations < 0) {
+                throw new IllegalArgumentException("--pace-ms and --iterations must not be negative");
+            }
+        } catch (IllegalArgumentException e) {
+            err.println("demo solver: " + e.getMessage() + "\n" + usage());
+            return 2;
+        }
+        try {
+            return new Job(scenario, layout, outFile, pace, iterations).execute();
+        } catch (IOException e) {
+            err.println("demo solver: cannot write " + outFile + ": " + e.getMessage());
+            return 3;
+        }
+    }
+
+    private static String usage() {
+        return "usage: DemoSolverMain --scenario NAME --layout jsonl|pass-line|sweep-block|table --out FILE"
+                + " [--pace-ms N] [--iterations N]\n  scenarios: " + String.join(", ", Scenario.ids())
+                + "\n  stop: SIGTERM, or create " + HALT_FILE + " beside the log";
+    }
+
+    /** One paced run; the shutdown hook and the main thread meet on {@code finished}. */
+    private static final class Job {
+        private final Scenario scenario;
+        private final LogWriter.Layout layout;
+        private final Path outFile;
+        private final Path haltFile;
+        private final long pace;
+        private final int iterations;
+        private volatile boolean terminating;
+        private final CountDownLatch finished = new CountDownLatch(1);
+
+        Job(Scenario scenario, LogWriter.Layout layout, Path outFile, long pace, int iterations) {
+            this.scenario = scenario;
+            this.layout = layout;
+            this.outFile = outFile;
+            Path dir = outFile.toAbsolutePath().getParent();
+            this.haltFile = dir.resolve(HALT_FILE);
+            this.pace = pace;
+            this.iterations = iterations;
+        }
+
+        int execute() throws IOException {
+            Path parent = outFile.toAbsolutePath().getParent();
+            Files.createDirectories(parent);
+            Thread hook = new Thread(() -> {
+                terminating = true;
+                try {
+                    finished.await(5, TimeUnit.SECONDS);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                }
+            }, "demo-solver-term");
+            Runtime.getRuntime().addShutdownHook(hook);
+            int code = 0;
+            try (Writer w = new BufferedWriter(new OutputStreamWriter(Files.newOutputStream(outFile,
+                    StandardOpenOption.CREATE, StandardOpenOption.TRUNCATE_EXISTING, StandardOpenOption.WRITE),
+                    StandardCharsets.UTF_8))) {
+                ScenarioRun run = new ScenarioRun(scenario, iterations);
+                Map<String, String> units = new LinkedHashMap<>();
+                for (int i = 0; i < run.monitorNames().size(); i++) {
+                    units.put(run.monitorNames().get(i), run.monitorUnits().get(i));
+                }
+                LogWriter log = new LogWriter(w, layout, units);
+                log.note("case " + scenario.id() + ": " + scenario.title());
+                log.note("numerics: " + scenario.numerics());
+                boolean blewUp = false;
+                while (run.hasNext()) {
+                    if (terminating) {
+                        log.note("terminate signal, stopping after pass " + lastIter(run));
+                        break;
+                    }
+                    if (Files.exists(haltFile)) {
+                        log.note(HALT_FILE + " found, stopping after pass " + lastIter(run));
+                        break;
+                    }
+                    ScenarioRun.Step step = run.next();
+                    if (step.restartedFrom() >= 0) {
+                        log.note("job requeued; resuming");
+                        log.restart(step.restartedFrom());
+                    }
+                    log.write(step.record());
+                    last = step.record().iter();
+                    blewUp = !finite(step.record().residuals().values());
+                    if (pace > 0 && run.hasNext()) {
+                        sleep(pace);
+                    }
+                }
+                if (blewUp && !terminating) {
+                    log.note("floating-point blow-up, solver aborts at pass " + last);
+                    code = EXIT_BLOWUP;
+                } else if (!terminating && !run.hasNext()) {
+                    log.note("end of run at pass " + last);
+                }
+            } finally {
+                finished.countDown();
+            }
+            if (!terminating) {
+                try {
+                    Runtime.getRuntime().removeShutdownHook(hook);
+                } catch (IllegalStateException e) {
+                    // shutdown already under way: the hook will see the latch open
+                }
+            }
+            return code;
+        }
+
+        private long last;
+
+        private long lastIter(ScenarioRun run) {
+            return last;
+        }
+
+        private static boolean finite(double[] values) {
+            for (double v : values) {
+                if (!Double.isFinite(v)) {
+                    return false;
+                }
+            }
+            return true;
+        }
+
+        private void sleep(long ms) {
+            long end = System.nanoTime() + TimeUnit.MILLISECONDS.toNanos(ms);
+            while (!terminating) {
+                long left = end - System.nanoTime();
+                if (left <= 0) {
+                    return;
+                }
+                try {
+                    Thread.sleep(Math.min(TimeUnit.NANOSECONDS.toMillis(left) + 1, 50));
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    return;
+                }
+            }
+        }
+    }
+}

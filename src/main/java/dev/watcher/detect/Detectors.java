@@ -16,6 +16,11 @@ public final class Detectors {
     public static List<Detector> standard(DetectSettings settings) {
         List<Detector> all = new ArrayList<>();
         // one line per detector, e.g. all.add(new NonFiniteDetector(settings));
+        all.add(new NonFiniteDetector(settings));
+        all.add(new ResidualLevelDetector(settings));
+        all.add(new SingleEquationBlowupDetector(settings));
+        all.add(new FamilyDivergenceDetector(settings));
+        all.add(new StalledOscillationDetector(settings));
         all.add(new RisingPeaksDetector(settings));
         all.add(new InnerStallDetector(settings));
         all.add(new MonitorSettledDetector(settings));

@@ -1,10 +1,7 @@
 package dev.watcher.detect;
 
 import dev.watcher.detect.stats.Holm;
-import dev.watcher.detect.stats.MannKendall;
 import dev.watcher.detect.stats.QuadraticFit;
-import dev.watcher.detect.stats.RollingWindow;
-import dev.watcher.detect.stats.TheilSen;
 import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
 import dev.watcher.model.IterationRecord;
@@ -14,106 +11,79 @@ import dev.watcher.model.Severity;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 import java.util.function.Consumer;
 
 /**
  * {@code family-divergence}: most equations of one family (momentum, turbulence, volume fraction, energy,
  * continuity; per region; or every equation of the run when the names give no family, see
- * {@link EquationFamilies}) turn from falling to rising together. Critical.
+ * {@link EquationFamilies}; declared families replace the trade names) turn from falling to rising
+ * together. Critical.
  *
- * <p>Method (METHODS.md "A family diverging"): log10 r is averaged over blocks of {@code block} records
- * (block means are far less autocorrelated than single iterations); over the last {@code blocks} block
- * means (the window, {@code block * blocks} iterations) a two-phase split at the lowest block: the early
- * phase must fall (Theil–Sen slope below 0, at least 3 blocks) and the late phase must rise, judged by a
- * one-sided Mann–Kendall test (exact for up to 10 points, Hamed–Rao corrected above), with a Theil–Sen slope
- * of at least {@code min_late_slope} decades/iteration and a rise of at least {@code min_rise} decades
- * above the lowest block. A quadratic fit's curvature t-statistic is reported as evidence. An equation
- * that does not show this shape gets p = 1. The family fires when Holm's step-down correction at
- * family-wise level {@code alpha} rejects for more than half of its members (not Fisher's combination:
- * the equations are correlated). Flattening at round-off is not divergence: it has no late rise, and
- * levels below {@code floor} are ignored.
+ * <p>Method (METHODS.md "A family diverging"), per equation on log10 r with a {@link RiseTracker}: a
+ * two-phase split at the running minimum. When some member is a candidate (CUSUM signalled and the smoothed
+ * level {@code min_rise} above its minimum), at most every {@code eval_every} records, each member gets a
+ * p-value: the one-sided Mann–Kendall test (exact up to 10 points, Hamed–Rao corrected above) of its late
+ * phase, the values since its minimum, provided that phase rises by at least half of {@code min_rise}
+ * with a Theil–Sen slope of at least {@code min_slope} decades/iteration and the level is above
+ * {@code floor}; otherwise p = 1. The family fires when Holm's step-down correction at family-wise level
+ * {@code alpha} rejects for more than half of its members (Holm, not Fisher's combination: the equations
+ * are correlated). Flattening at round-off is not divergence: it has no late rise, and levels below
+ * {@code floor} are ignored. The evidence reports how far the members fell before turning
+ * ({@code fall_decades}) and the curvature t-statistic of a quadratic fit of the window.
  *
  * <p>An open condition resolves (hysteresis) when more than half of its equations are back within half of
  * {@code min_rise} of the level they rose from, or, after a new segment, when more than half fall
- * significantly (Sen's interval of the block means below 0).
+ * significantly (Sen's interval of the window's slope below 0).
  *
- * <p>Parameters ({@code family-divergence.}): {@code block} 10 records, {@code blocks} 20,
- * {@code min_rise} 0.5 decades, {@code min_late_slope} 0.002 decades/iteration, {@code alpha} 0.01,
- * {@code floor} 1e-12, {@code warmup} 30 records per segment, {@code min_family_size} 2. Cost: O(1) per
- * value; O(blocks^2) per equation per block, only for equations whose latest block is at least
- * {@code min_rise} above the window's lowest.
+ * <p>Parameters ({@code family-divergence.}): {@code window} 60 records, {@code min_rise} 0.5 decades,
+ * {@code min_slope} 0.005 decades/iteration, {@code alpha} 0.01, {@code floor} 1e-12, {@code warmup} 50
+ * records per segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades,
+ * {@code eval_every} 3 records, {@code min_family_size} 2. Cost: O(1) per value; the tests run only while a
+ * member rises persistently.
  */
 final class FamilyDivergenceDetector implements Detector {
 
     private static final String P = Patterns.FAMILY_DIVERGENCE + ".";
-    private static final int MIN_EARLY = 3;
-    private static final int MIN_LATE = 4;
 
-    private final int block;
-    private final int blocks;
+    private final int window;
     private final double minRise;
-    private final double minLateSlope;
+    private final double minSlope;
     private final double alpha;
     private final double floor;
     private final int warmup;
+    private final double cusumK;
+    private final double cusumH;
+    private final double minScale;
+    private final int evalEvery;
     private final int minFamilySize;
     private final Map<String, List<String>> declared;
-    private final PerName<Eq> eqs;
+    private final PerName<RiseTracker> eqs;
     private List<String> familiesFor;
     private Map<String, List<String>> families = Map.of();
+    private final Map<String, Long> lastEval = new LinkedHashMap<>();
     private final List<Open> open = new ArrayList<>();
-    private final double[] bx;
-    private final double[] by;
+    private final double[] xs;
+    private final double[] ys;
+    private long records;
 
     FamilyDivergenceDetector(DetectSettings s) {
-        block = Math.max(1, s.integer(P + "block", 10));
-        blocks = Math.max(MIN_EARLY + MIN_LATE, s.integer(P + "blocks", 20));
+        window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
         minRise = s.number(P + "min_rise", 0.5);
-        minLateSlope = s.number(P + "min_late_slope", 0.002);
+        minSlope = s.number(P + "min_slope", 0.005);
         alpha = s.number(P + "alpha", 0.01);
         floor = Math.log10(s.number(P + "floor", 1e-12));
-        warmup = Math.max(0, s.integer(P + "warmup", 30));
+        warmup = Math.max(1, s.integer(P + "warmup", 50));
+        cusumK = s.number(P + "cusum_k", 0.5);
+        cusumH = s.number(P + "cusum_h", 5);
+        minScale = s.number(P + "min_scale", 0.005);
+        evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();
-        eqs = new PerName<>(Eq::new);
-        bx = new double[blocks];
-        by = new double[blocks];
-    }
-
-    private final class Eq {
-        final String name;
-        final RollingWindow means = new RollingWindow(blocks);
-        final RollingWindow ends = new RollingWindow(blocks);
-        long count;
-        double sum;
-        int inBlock;
-        double lastIter;
-        // result of the latest evaluation
-        double p = 1;
-        double lateSlope;
-        double rise;
-        double lowest;
-        double curvatureT;
-        boolean fresh;
-
-        Eq(String name) {
-            this.name = name;
-        }
-
-        void reset() {
-            means.clear();
-            ends.clear();
-            count = 0;
-            sum = 0;
-            inBlock = 0;
-            fresh = false;
-            p = 1;
-        }
-
-        double latest() {
-            return means.last();
-        }
+        eqs = new PerName<>(n -> new RiseTracker(n, window, warmup, cusumK, cusumH, minScale));
+        xs = new double[window];
+        ys = new double[window];
     }
 
     private static final class Open {
@@ -131,111 +101,81 @@ final class FamilyDivergenceDetector implements Detector {
 
     @Override
     public void observe(IterationRecord r, Consumer<Detection> out) {
+        records++;
         Samples res = r.residuals();
         if (res.names() != familiesFor) {
             familiesFor = res.names();
             families = EquationFamilies.of(res.names(), declared, minFamilySize);
         }
         double[] v = res.values();
-        List<Eq> slots = eqs.slots(res.names());
-        boolean blockDone = false;
+        List<RiseTracker> slots = eqs.slots(res.names());
+        boolean anyCandidate = false;
         for (int i = 0; i < v.length; i++) {
             double y = Log10.of(v[i]);
             if (Double.isNaN(y)) {
                 continue;
             }
-            Eq e = slots.get(i);
-            e.count++;
-            if (e.count <= warmup) {
-                continue;
-            }
-            e.sum += y;
-            e.inBlock++;
-            e.lastIter = r.iter();
-            if (e.inBlock == block) {
-                e.means.add(e.sum / block);
-                e.ends.add(r.iter());
-                e.sum = 0;
-                e.inBlock = 0;
-                e.fresh = true;
-                blockDone = true;
-            }
+            RiseTracker t = slots.get(i);
+            t.add(r.iter(), y);
+            anyCandidate |= t.candidate(minRise);
         }
-        if (blockDone) {
+        if (anyCandidate) {
             judge(r, out);
+        }
+        if (!open.isEmpty()) {
+            checkResolved(r, out);
         }
     }
 
     private void judge(IterationRecord r, Consumer<Detection> out) {
         for (Map.Entry<String, List<String>> f : families.entrySet()) {
-            if (isOpen(f.getKey())) {
+            String family = f.getKey();
+            List<String> members = f.getValue();
+            if (isOpen(family) || records - lastEval.getOrDefault(family, Long.MIN_VALUE / 2) < evalEvery) {
                 continue;
             }
-            List<String> members = f.getValue();
-            double[] p = new double[members.size()];
-            int candidates = 0;
-            for (int i = 0; i < p.length; i++) {
-                Eq e = eqs.get(members.get(i));
-                p[i] = 1;
-                if (e != null) {
-                    if (e.fresh) {
-                        test(e);
-                    }
-                    p[i] = e.p;
-                    if (e.p < 1) {
-                        candidates++;
-                    }
-                }
+            boolean candidate = false;
+            for (String m : members) {
+                RiseTracker t = eqs.get(m);
+                candidate |= t != null && t.candidate(minRise);
             }
-            if (2 * candidates <= members.size()) {
+            if (!candidate) {
+                continue;
+            }
+            lastEval.put(family, records);
+            double[] p = new double[members.size()];
+            double[] slope = new double[members.size()];
+            int shaped = 0;
+            for (int i = 0; i < p.length; i++) {
+                p[i] = 1;
+                RiseTracker t = eqs.get(members.get(i));
+                if (t == null || !t.warm() || t.rise() < minRise / 2 || t.last < floor) {
+                    continue;
+                }
+                RiseTracker.Late late = t.late(xs, ys);
+                if (late == null || late.fit().slope() < minSlope) {
+                    continue;
+                }
+                p[i] = late.trend().pIncreasing();
+                slope[i] = late.fit().slope();
+                shaped++;
+            }
+            if (2 * shaped <= members.size()) {
                 continue;
             }
             boolean[] rejected = Holm.reject(p, p.length, alpha);
             List<String> rising = new ArrayList<>();
+            List<Integer> idx = new ArrayList<>();
             for (int i = 0; i < p.length; i++) {
                 if (rejected[i]) {
                     rising.add(members.get(i));
+                    idx.add(i);
                 }
             }
             if (2 * rising.size() > members.size()) {
-                fire(f.getKey(), members, rising, p, r, out);
+                fire(family, members, rising, idx, p, slope, r, out);
             }
         }
-        for (int k = open.size() - 1; k >= 0; k--) {
-            Open o = open.get(k);
-            int back = 0;
-            int falling = 0;
-            for (int i = 0; i < o.equations.size(); i++) {
-                Eq e = eqs.get(o.equations.get(i));
-                if (e == null || e.means.size() == 0) {
-                    continue;
-                }
-                if (e.latest() <= o.from[i] + minRise / 2) {
-                    back++;
-                } else if (o.segmentSince && e.means.size() >= MIN_EARLY + MIN_LATE) {
-                    falling += fallingSignificantly(e) ? 1 : 0;
-                }
-            }
-            if (2 * back > o.equations.size() || 2 * falling > o.equations.size()) {
-                open.remove(k);
-                Map<String, Object> ev = new LinkedHashMap<>();
-                ev.put("recovered", back);
-                ev.put("falling", falling);
-                out.accept(new Detection(Patterns.FAMILY_DIVERGENCE, DetectionState.RESOLVED, Severity.CRITICAL,
-                        r.iter(), o.equations, null, familyLabel(o.family) + " residuals "
-                                + (2 * back > o.equations.size() ? "back near the level they rose from"
-                                        : "falling again"), "", ev));
-            }
-        }
-        for (Eq e : eqs.all().values()) {
-            e.fresh = false;
-        }
-    }
-
-    private boolean fallingSignificantly(Eq e) {
-        int n = e.means.copyTo(by);
-        e.ends.copyTo(bx);
-        return TheilSen.fit(bx, by, n, 0.95).high() < 0;
     }
 
     private boolean isOpen(String family) {
@@ -247,86 +187,80 @@ final class FamilyDivergenceDetector implements Detector {
         return false;
     }
 
-    /** The two-phase test of one equation; sets e.p (1 when the shape is not there) and the evidence. */
-    private void test(Eq e) {
-        e.p = 1;
-        int n = e.means.size();
-        if (n < MIN_EARLY + MIN_LATE) {
-            return;
-        }
-        e.means.copyTo(by);
-        int low = 0;
-        for (int i = 1; i < n; i++) {
-            if (by[i] < by[low]) {
-                low = i;
-            }
-        }
-        double last = by[n - 1];
-        e.lowest = by[low];
-        e.rise = last - by[low];
-        // cheap gates first: enough rise, above round-off, a split with both phases present
-        if (e.rise < minRise || last < floor || low < MIN_EARLY - 1 || n - low < MIN_LATE) {
-            return;
-        }
-        e.ends.copyTo(bx);
-        double early = TheilSen.fit(bx, by, low + 1, 0.95).slope();
-        if (!(early < 0)) {
-            return;
-        }
-        double[] lx = java.util.Arrays.copyOfRange(bx, low, n);
-        double[] ly = java.util.Arrays.copyOfRange(by, low, n);
-        TheilSen late = TheilSen.fit(lx, ly, ly.length, 0.95);
-        e.lateSlope = late.slope();
-        if (late.slope() < minLateSlope) {
-            return;
-        }
-        MannKendall mk = ly.length <= MannKendall.EXACT_MAX_N ? MannKendall.of(ly, ly.length)
-                : MannKendall.hamedRao(ly, ly.length);
-        e.curvatureT = QuadraticFit.of(by, n).tC();
-        e.p = mk.pIncreasing();
-    }
-
-    private void fire(String family, List<String> members, List<String> rising, double[] p, IterationRecord r,
-            Consumer<Detection> out) {
+    private void fire(String family, List<String> members, List<String> rising, List<Integer> idx, double[] p,
+            double[] slope, IterationRecord r, Consumer<Detection> out) {
         double[] from = new double[rising.size()];
         double maxSlope = 0;
+        double minSlopeSeen = Double.POSITIVE_INFINITY;
         double maxRise = 0;
-        double minSlope = Double.POSITIVE_INFINITY;
         double maxP = 0;
-        double minCurv = Double.POSITIVE_INFINITY;
-        for (int i = 0; i < rising.size(); i++) {
-            Eq e = eqs.get(rising.get(i));
-            from[i] = e.lowest;
-            maxSlope = Math.max(maxSlope, e.lateSlope);
-            minSlope = Math.min(minSlope, e.lateSlope);
-            maxRise = Math.max(maxRise, e.rise);
-            maxP = Math.max(maxP, e.p);
-            minCurv = Math.min(minCurv, e.curvatureT);
+        double minFall = Double.POSITIVE_INFINITY;
+        for (int k = 0; k < rising.size(); k++) {
+            RiseTracker t = eqs.get(rising.get(k));
+            int i = idx.get(k);
+            from[k] = t.minSmooth;
+            maxSlope = Math.max(maxSlope, slope[i]);
+            minSlopeSeen = Math.min(minSlopeSeen, slope[i]);
+            maxRise = Math.max(maxRise, t.last - t.minRaw);
+            maxP = Math.max(maxP, p[i]);
+            minFall = Math.min(minFall, t.fall());
         }
+        RiseTracker first = eqs.get(rising.get(0));
+        int n = first.size();
+        first.window(xs, ys);
+        double curvatureT = QuadraticFit.of(ys, n).tC();
         open.add(new Open(family, List.copyOf(rising), from));
         Map<String, Object> ev = new LinkedHashMap<>();
         ev.put("family", family);
         ev.put("members", members.size());
         ev.put("rising", rising.size());
         ev.put("slope_decades_per_iter", Log10.round(maxSlope));
-        ev.put("min_slope_decades_per_iter", Log10.round(minSlope));
+        ev.put("min_slope_decades_per_iter", Log10.round(minSlopeSeen));
         ev.put("rise_decades", Log10.round(maxRise));
+        ev.put("fall_decades", Log10.round(minFall));
         ev.put("p_max", Log10.round(maxP));
         ev.put("alpha", alpha);
-        if (Double.isFinite(minCurv)) {
-            ev.put("curvature_t_min", Log10.round(minCurv));
+        if (Double.isFinite(curvatureT)) {
+            ev.put("curvature_t", Log10.round(curvatureT));
         }
-        ev.put("window_iterations", (long) block * blocks);
-        String summary = String.format(java.util.Locale.ROOT,
-                "%s residuals (%d of %d: %s) turned from falling to rising, up to %.2g decades at %.3g"
+        String summary = String.format(Locale.ROOT,
+                "%s residuals (%d of %d: %s) %s rising, up to %.2g decades above their minimum at %.3g"
                         + " decades/iteration", familyLabel(family), rising.size(), members.size(),
-                String.join(", ", rising), maxRise, maxSlope);
-        String remedy = "The discretisation is likely unstable for this flow: to debug, try first-order"
-                + " interpolation (upwind) for these equations and lower their relaxation factors; first order is"
-                + " a diagnostic, not a fix for momentum accuracy. Check the mesh quality and the time step or"
-                + " pseudo-time step as well.";
+                String.join(", ", rising), minFall > 0 ? "turned from falling to" : "are", maxRise, maxSlope);
+        String remedy = "The discretisation is likely unstable here: to debug, try first-order interpolation"
+                + " (upwind) for these equations and lower their relaxation factors; first order is a diagnostic,"
+                + " not a fix for momentum accuracy. Check mesh quality and the (pseudo) time step too.";
         out.accept(new Detection(Patterns.FAMILY_DIVERGENCE, DetectionState.OPEN, Severity.CRITICAL, r.iter(),
                 rising, null, summary, remedy, ev));
+    }
+
+    private void checkResolved(IterationRecord r, Consumer<Detection> out) {
+        for (int k = open.size() - 1; k >= 0; k--) {
+            Open o = open.get(k);
+            int back = 0;
+            int falling = 0;
+            for (int i = 0; i < o.equations.size(); i++) {
+                RiseTracker t = eqs.get(o.equations.get(i));
+                if (t == null || !t.warm()) {
+                    continue;
+                }
+                if (t.smooth <= o.from[i] + minRise / 2) {
+                    back++;
+                } else if (o.segmentSince && records % evalEvery == 0) {
+                    falling += t.window(xs, ys).high() < 0 ? 1 : 0;
+                }
+            }
+            if (2 * back > o.equations.size() || 2 * falling > o.equations.size()) {
+                open.remove(k);
+                Map<String, Object> ev = new LinkedHashMap<>();
+                ev.put("recovered", back);
+                ev.put("falling", falling);
+                out.accept(new Detection(Patterns.FAMILY_DIVERGENCE, DetectionState.RESOLVED, Severity.CRITICAL,
+                        r.iter(), o.equations, null, familyLabel(o.family) + " residuals "
+                                + (2 * back > o.equations.size() ? "back near the level they rose from"
+                                        : "falling again after the restart"), "", ev));
+            }
+        }
     }
 
     private static String familyLabel(String family) {
@@ -335,8 +269,8 @@ final class FamilyDivergenceDetector implements Detector {
 
     @Override
     public void segment(int segment, long iter, Consumer<Detection> out) {
-        for (Eq e : eqs.all().values()) {
-            e.reset();
+        for (RiseTracker t : eqs.all().values()) {
+            t.reset();
         }
         for (Open o : open) {
             o.segmentSince = true;
@@ -345,11 +279,11 @@ final class FamilyDivergenceDetector implements Detector {
 
     @Override
     public Map<String, Object> snapshot() {
-        Map<String, Object> m = new LinkedHashMap<>();
         List<String> fams = new ArrayList<>();
         for (Open o : open) {
             fams.add(o.family);
         }
+        Map<String, Object> m = new LinkedHashMap<>();
         m.put("open_families", fams);
         m.put("families", new ArrayList<>(families.keySet()));
         return m;

@@ -19,7 +19,7 @@ import java.util.function.Consumer;
  *
  * <p>"Crossing downward" means the value is below the level now and was at or above it earlier in the same
  * segment, so a run restarted already below a level does not announce it again. When one record crosses
- * several levels at once, one event per level is emitted, highest level first. O(1) per value.
+ * several levels at once, one event per level is emitted, highest level first. O(levels) per value.
  *
  * <p>Parameter: {@code residual-level.levels}, a comma-separated list of positive numbers.
  */
@@ -51,13 +51,19 @@ final class ResidualLevelDetector implements Detector {
 
     private final class State {
         final String name;
-        /** Index of the highest level not yet crossed in this segment. */
-        int next;
-        /** Smallest index j such that the residual was at or above levels[j] in this segment (length = none). */
-        int seenAbove = levels.length;
+        /** above[k]: the residual was at or above levels[k] earlier in this segment. */
+        final boolean[] above = new boolean[levels.length];
+        final boolean[] announced = new boolean[levels.length];
+        int remaining = levels.length;
 
         State(String name) {
             this.name = name;
+        }
+
+        void reset() {
+            java.util.Arrays.fill(above, false);
+            java.util.Arrays.fill(announced, false);
+            remaining = levels.length;
         }
     }
 
@@ -69,18 +75,17 @@ final class ResidualLevelDetector implements Detector {
         for (int i = 0; i < v.length; i++) {
             double x = v[i];
             State s = slots.get(i);
-            if (s.next >= levels.length || !(x >= 0) || x == Double.POSITIVE_INFINITY) {
-                continue; // all levels done, or NaN/negative/infinite: not a level
+            if (s.remaining == 0 || !(x >= 0) || x == Double.POSITIVE_INFINITY) {
+                continue; // all levels announced, or NaN/negative/infinite: not a level
             }
-            // levels at or below x have now been seen from above
-            while (s.seenAbove > 0 && x >= levels[s.seenAbove - 1]) {
-                s.seenAbove--;
-            }
-            while (s.next < levels.length && x < levels[s.next]) {
-                if (s.seenAbove <= s.next) {
-                    out.accept(event(r, s.name, levels[s.next], x));
+            for (int k = 0; k < levels.length; k++) { // highest level first
+                if (x >= levels[k]) {
+                    s.above[k] = true;
+                } else if (s.above[k] && !s.announced[k]) {
+                    s.announced[k] = true;
+                    s.remaining--;
+                    out.accept(event(r, s.name, levels[k], x));
                 }
-                s.next++;
             }
         }
     }
@@ -98,8 +103,7 @@ final class ResidualLevelDetector implements Detector {
     @Override
     public void segment(int segment, long iter, Consumer<Detection> out) {
         for (State s : states.all().values()) {
-            s.next = 0;
-            s.seenAbove = levels.length;
+            s.reset();
         }
     }
 }

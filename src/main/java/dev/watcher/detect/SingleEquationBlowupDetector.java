@@ -1,8 +1,6 @@
 package dev.watcher.detect;
 
-import dev.watcher.detect.stats.Cusum;
 import dev.watcher.detect.stats.RobustScale;
-import dev.watcher.detect.stats.RollingWindow;
 import dev.watcher.detect.stats.TheilSen;
 import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
@@ -13,6 +11,7 @@ import dev.watcher.model.Severity;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 import java.util.function.Consumer;
 
@@ -21,40 +20,35 @@ import java.util.function.Consumer;
  * flat. Meant to fire early: well before the residual has grown 3 decades above its running minimum, and
  * before any NaN. Critical.
  *
- * <p>Method, per equation on log10 r (METHODS.md "Blow-up onset in one equation"):
- * <ol>
- * <li>cheap, every record: a one-sided CUSUM (Page 1954) on the first differences of log10 r standardized
- *     by a running mean absolute difference (floored at {@code min_scale}), and the rise of the smoothed
- *     log10 r (exponential smoothing, weight 0.1) above its running minimum since the segment's warm-up;</li>
- * <li>when both the CUSUM has signalled and the rise is at least {@code min_rise}, at most every
- *     {@code eval_every} records: the Theil–Sen slope over the last {@code window} values against the
- *     iteration must be at least {@code min_slope} with Sen's 95 % interval above 0;</li>
- * <li>confinement: fewer than {@code others_rising_fraction} of the other equations rise by the same test,
- *     and none of the rising ones is in the same family (two momentum components rising together are a
- *     family divergence, not a single equation). The equation's slope as a modified z-score among all
- *     equations' slopes is reported as evidence.</li>
- * </ol>
- * The first {@code warmup} records of each segment set no baseline, so start-up transients and the jump
- * after a restart are not taken for a blow-up. An open condition resolves (hysteresis) when the smoothed
- * residual is back within half of {@code min_rise} of the minimum it rose from, or, after a new segment,
- * when the equation falls significantly again (Sen's interval below 0).
+ * <p>Method, per equation on log10 r (METHODS.md "Blow-up onset in one equation"), see {@link RiseTracker}:
+ * a CUSUM on standardized differences and a rise of the smoothed level of at least {@code min_rise} decades
+ * above its minimum since the warm-up (cheap, every record) select a candidate; then, at most every
+ * {@code eval_every} records, the late phase (the values since the minimum) must rise: Theil–Sen slope at
+ * least {@code min_slope} decades/iteration with Sen's 95 % interval above 0, and a one-sided Mann–Kendall
+ * p-value (exact up to 10 points, Hamed–Rao above) below {@code alpha}. Confinement: fewer than
+ * {@code others_rising_fraction} of the other equations rise (half the rise suffices for them), and no
+ * rising one shares the equation's family (for a family mate, a signalled CUSUM suffices) (two momentum components rising together are a
+ * {@code family-divergence}). The slope's modified z-score among all equations' window slopes is
+ * reported as evidence.
  *
- * <p>Parameters ({@code single-equation-blowup.}): {@code window} 40, {@code min_slope} 0.005
- * decades/iteration, {@code min_rise} 0.7 decades, {@code warmup} 50 records, {@code cusum_k} 0.5,
- * {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code eval_every} 5 records,
- * {@code others_rising_fraction} 0.5. Cost: O(1) per value; O(window^2 log window) per evaluation, which
- * happens only while a residual rises persistently.
+ * <p>Resolves (hysteresis) when the smoothed residual is back within half of {@code min_rise} of the
+ * minimum it rose from, or, after a new segment, when the equation falls significantly (Sen's interval
+ * of the window's slope below 0).
+ *
+ * <p>Parameters ({@code single-equation-blowup.}): {@code window} 60 records, {@code min_slope} 0.005
+ * decades/iteration, {@code min_rise} 0.5 decades, {@code alpha} 0.01, {@code warmup} 50 records per
+ * segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code eval_every} 3
+ * records, {@code others_rising_fraction} 0.5. Cost: O(1) per value; O(window^2 log window) per evaluation,
+ * which happens only while a residual rises persistently.
  */
 final class SingleEquationBlowupDetector implements Detector {
 
     private static final String P = Patterns.SINGLE_EQUATION_BLOWUP + ".";
-    private static final double SMOOTH = 0.1;
-    private static final double SCALE_WEIGHT = 0.02;
-    private static final int MIN_POINTS = 10;
 
     private final int window;
     private final double minSlope;
     private final double minRise;
+    private final double alpha;
     private final int warmup;
     private final double cusumK;
     private final double cusumH;
@@ -62,19 +56,19 @@ final class SingleEquationBlowupDetector implements Detector {
     private final int evalEvery;
     private final double othersRisingFraction;
     private final PerName<Eq> eqs;
-    private List<String> lastNames = List.of();
     private final double[] xs;
     private final double[] ys;
 
     SingleEquationBlowupDetector(DetectSettings s) {
-        window = Math.max(MIN_POINTS, s.integer(P + "window", 40));
+        window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
         minSlope = s.number(P + "min_slope", 0.005);
-        minRise = s.number(P + "min_rise", 0.7);
+        minRise = s.number(P + "min_rise", 0.5);
+        alpha = s.number(P + "alpha", 0.01);
         warmup = Math.max(1, s.integer(P + "warmup", 50));
         cusumK = s.number(P + "cusum_k", 0.5);
         cusumH = s.number(P + "cusum_h", 5);
         minScale = s.number(P + "min_scale", 0.005);
-        evalEvery = Math.max(1, s.integer(P + "eval_every", 5));
+        evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         othersRisingFraction = s.number(P + "others_rising_fraction", 0.5);
         eqs = new PerName<>(Eq::new);
         xs = new double[window];
@@ -82,43 +76,13 @@ final class SingleEquationBlowupDetector implements Detector {
     }
 
     private final class Eq {
-        final String name;
-        final String family;
-        final RollingWindow iters = new RollingWindow(window);
-        final RollingWindow logs = new RollingWindow(window);
-        final Cusum cusum = new Cusum(cusumK, cusumH, 0);
-        long count;
-        double last;
-        double smooth;
-        double scale;
-        double minSmooth = Double.POSITIVE_INFINITY;
-        double minRaw = Double.POSITIVE_INFINITY;
-        long lastEval = Long.MIN_VALUE / 2;
-        // the open condition
+        final RiseTracker t;
         boolean open;
         boolean segmentSinceOpen;
         double openFrom;
 
         Eq(String name) {
-            this.name = name;
-            this.family = EquationFamilies.familyOf(name);
-        }
-
-        void reset() {
-            iters.clear();
-            logs.clear();
-            cusum.reset();
-            count = 0;
-            scale = 0;
-            minSmooth = Double.POSITIVE_INFINITY;
-            minRaw = Double.POSITIVE_INFINITY;
-            lastEval = Long.MIN_VALUE / 2;
-        }
-
-        TheilSen fit() {
-            int n = iters.copyTo(xs);
-            logs.copyTo(ys);
-            return TheilSen.fit(xs, ys, n, 0.95);
+            t = new RiseTracker(name, window, warmup, cusumK, cusumH, minScale);
         }
     }
 
@@ -126,114 +90,108 @@ final class SingleEquationBlowupDetector implements Detector {
     public void observe(IterationRecord r, Consumer<Detection> out) {
         Samples res = r.residuals();
         double[] v = res.values();
-        lastNames = res.names();
         List<Eq> slots = eqs.slots(res.names());
+        // update every equation first, so the confinement test sees this record for all of them
         for (int i = 0; i < v.length; i++) {
             double y = Log10.of(v[i]);
-            if (Double.isNaN(y)) {
+            if (!Double.isNaN(y)) {
+                slots.get(i).t.add(r.iter(), y);
+            }
+        }
+        for (int i = 0; i < v.length; i++) {
+            if (Double.isNaN(Log10.of(v[i]))) {
                 continue;
             }
             Eq e = slots.get(i);
-            update(e, r.iter(), y);
             if (e.open) {
                 checkResolved(e, r, out);
-            } else if (e.count > warmup && e.cusum.signalled() && e.smooth - e.minSmooth >= minRise
-                    && e.count - e.lastEval >= evalEvery && e.logs.size() >= MIN_POINTS) {
-                e.lastEval = e.count;
+            } else if (e.t.candidate(minRise) && e.t.count - e.t.lastEval >= evalEvery) {
+                e.t.lastEval = e.t.count;
                 evaluate(e, slots, r, out);
             }
         }
     }
 
-    private void update(Eq e, long iter, double y) {
-        e.count++;
-        if (e.count == 1) {
-            e.smooth = y;
-        } else {
-            double d = y - e.last;
-            double z = d / Math.max(e.scale, minScale);
-            e.cusum.add(z);
-            e.scale = e.count == 2 ? Math.abs(d) : e.scale + SCALE_WEIGHT * (Math.abs(d) - e.scale);
-            e.smooth += SMOOTH * (y - e.smooth);
+    private RiseTracker.Late risingLate(RiseTracker t, double rise) {
+        if (!t.warm() || t.rise() < rise) {
+            return null;
         }
-        e.last = y;
-        e.iters.add(iter);
-        e.logs.add(y);
-        if (e.count > warmup) {
-            e.minSmooth = Math.min(e.minSmooth, e.smooth);
-            e.minRaw = Math.min(e.minRaw, y);
+        RiseTracker.Late l = t.late(xs, ys);
+        if (l == null || l.fit().slope() < minSlope || !(l.fit().low() > 0) || l.trend().pIncreasing() >= alpha) {
+            return null;
         }
-    }
-
-    private boolean rising(TheilSen t) {
-        return t.slope() >= minSlope && t.low() > 0;
+        return l;
     }
 
     private void evaluate(Eq e, List<Eq> slots, IterationRecord r, Consumer<Detection> out) {
-        TheilSen t = e.fit();
-        if (!rising(t)) {
+        RiseTracker.Late late = risingLate(e.t, minRise);
+        if (late == null) {
             return;
         }
         int others = 0;
         int othersRising = 0;
         boolean familyMateRising = false;
         List<Double> slopes = new ArrayList<>();
-        slopes.add(t.slope());
+        slopes.add(late.fit().slope());
         for (Eq o : slots) {
-            if (o == e || o.logs.size() < MIN_POINTS) {
+            if (o == e || o.t.size() < RiseTracker.MIN_LATE) {
                 continue;
             }
             others++;
-            TheilSen ot = o.fit();
-            slopes.add(ot.slope());
-            if (rising(ot)) {
+            slopes.add(o.t.window(xs, ys).slope());
+            boolean mate = e.t.family != null && e.t.family.equals(o.t.family);
+            if (risingLate(o.t, minRise / 2) != null) {
                 othersRising++;
-                if (e.family != null && e.family.equals(o.family)) {
-                    familyMateRising = true;
-                }
+                familyMateRising |= mate;
+            } else if (mate && o.t.warm() && o.t.cusumSignalled()) {
+                // a family mate climbing persistently too: leave it to family-divergence
+                familyMateRising = true;
             }
         }
         if (familyMateRising || (others > 0 && othersRising >= othersRisingFraction * others)) {
+            // not confined to this equation: look again only after a quarter window
+            e.t.lastEval = e.t.count + window / 4;
             return;
         }
         double[] sl = slopes.stream().mapToDouble(Double::doubleValue).toArray();
-        double outlierZ = RobustScale.of(sl, sl.length).modifiedZ(t.slope());
+        double outlierZ = RobustScale.of(sl, sl.length).modifiedZ(late.fit().slope());
         e.open = true;
         e.segmentSinceOpen = false;
-        e.openFrom = e.minSmooth;
+        e.openFrom = e.t.minSmooth;
+        TheilSen f = late.fit();
+        double rise = e.t.last - e.t.minRaw;
         Map<String, Object> ev = new LinkedHashMap<>();
-        ev.put("slope_decades_per_iter", Log10.round(t.slope()));
-        ev.put("slope_low", Log10.round(t.low()));
-        ev.put("slope_high", Log10.round(t.high()));
-        ev.put("rise_decades", Log10.round(e.last - e.minRaw));
-        ev.put("residual", Log10.round(Math.pow(10, e.last)));
-        ev.put("running_min", Log10.round(Math.pow(10, e.minRaw)));
-        ev.put("cusum", Log10.round(e.cusum.value()));
+        ev.put("slope_decades_per_iter", Log10.round(f.slope()));
+        ev.put("slope_low", Log10.round(f.low()));
+        ev.put("slope_high", Log10.round(f.high()));
+        ev.put("rise_decades", Log10.round(rise));
+        ev.put("residual", Log10.round(Math.pow(10, e.t.last)));
+        ev.put("running_min", Log10.round(Math.pow(10, e.t.minRaw)));
+        ev.put("p_trend", Log10.round(late.trend().pIncreasing()));
+        ev.put("rising_points", f.n());
+        ev.put("cusum", Log10.round(e.t.cusum()));
         ev.put("others", others);
         ev.put("others_rising", othersRising);
         if (Double.isFinite(outlierZ)) {
             ev.put("slope_modified_z", Log10.round(outlierZ));
         }
-        ev.put("window", e.logs.size());
-        String summary = String.format(java.util.Locale.ROOT,
-                "%s residual rising %.3g decades/iteration, %.2g decades above its minimum, while %s",
-                e.name, t.slope(), e.last - e.minRaw, others == 0 ? "no other equation is reported"
+        String summary = String.format(Locale.ROOT,
+                "%s residual rising %.3g decades/iteration, %.2g decades above its minimum, while %s", e.t.name,
+                f.slope(), rise, others == 0 ? "no other equation is reported"
                         : othersRising == 0 ? "the others fall or stay flat" : "most others fall or stay flat");
-        String remedy = "Look for a local mesh trouble spot: poor cell quality or resolution where " + e.name
-                + " peaks (inspect the cells with the largest " + e.name + " residual); check the boundary"
-                + " conditions that feed it.";
+        String remedy = "Look for a local mesh trouble spot: poor cell quality or resolution where " + e.t.name
+                + " peaks (inspect the cells with the largest " + e.t.name + " residual or correction), and the"
+                + " boundary conditions that feed it.";
         out.accept(new Detection(Patterns.SINGLE_EQUATION_BLOWUP, DetectionState.OPEN, Severity.CRITICAL, r.iter(),
-                List.of(e.name), null, summary, remedy, ev));
+                List.of(e.t.name), null, summary, remedy, ev));
     }
 
     private void checkResolved(Eq e, IterationRecord r, Consumer<Detection> out) {
-        boolean recovered = e.smooth <= e.openFrom + minRise / 2;
+        boolean recovered = e.t.warm() && e.t.smooth <= e.openFrom + minRise / 2;
         String why = "back near the level it rose from";
-        if (!recovered && e.segmentSinceOpen && e.count > warmup && e.count - e.lastEval >= evalEvery
-                && e.logs.size() >= MIN_POINTS) {
-            e.lastEval = e.count;
-            TheilSen t = e.fit();
-            recovered = t.high() < 0;
+        if (!recovered && e.segmentSinceOpen && e.t.warm() && e.t.count - e.t.lastEval >= evalEvery) {
+            e.t.lastEval = e.t.count;
+            recovered = e.t.window(xs, ys).high() < 0;
             why = "falling again after the restart";
         }
         if (!recovered) {
@@ -241,15 +199,15 @@ final class SingleEquationBlowupDetector implements Detector {
         }
         e.open = false;
         Map<String, Object> ev = new LinkedHashMap<>();
-        ev.put("residual", Log10.round(Math.pow(10, e.last)));
+        ev.put("residual", Log10.round(Math.pow(10, e.t.last)));
         out.accept(new Detection(Patterns.SINGLE_EQUATION_BLOWUP, DetectionState.RESOLVED, Severity.CRITICAL,
-                r.iter(), List.of(e.name), null, e.name + " residual " + why, "", ev));
+                r.iter(), List.of(e.t.name), null, e.t.name + " residual " + why, "", ev));
     }
 
     @Override
     public void segment(int segment, long iter, Consumer<Detection> out) {
         for (Eq e : eqs.all().values()) {
-            e.reset();
+            e.t.reset();
             if (e.open) {
                 e.segmentSinceOpen = true;
             }
@@ -258,15 +216,14 @@ final class SingleEquationBlowupDetector implements Detector {
 
     @Override
     public Map<String, Object> snapshot() {
-        Map<String, Object> m = new LinkedHashMap<>();
         List<String> open = new ArrayList<>();
         for (Eq e : eqs.all().values()) {
             if (e.open) {
-                open.add(e.name);
+                open.add(e.t.name);
             }
         }
+        Map<String, Object> m = new LinkedHashMap<>();
         m.put("open_equations", open);
-        m.put("equations", lastNames.size());
         return m;
     }
 }

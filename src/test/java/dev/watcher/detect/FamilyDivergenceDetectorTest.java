@@ -1,6 +1,6 @@
 package dev.watcher.detect;
 
-import static dev.watcher.detect.DetectorTestSupport.beyondLevels;
+import static dev.watcher.detect.DetectorTestSupport.alarms;
 import static dev.watcher.detect.DetectorTestSupport.deadline;
 import static dev.watcher.detect.DetectorTestSupport.firstNonFinite;
 import static dev.watcher.detect.DetectorTestSupport.of;
@@ -44,7 +44,7 @@ class FamilyDivergenceDetectorTest {
     @Test
     void firstOrderUpwindOnTheSameFlowConvergesWithoutAlarm() {
         List<IterationRecord> rs = ResidualSolvers.developingVortex(false, 4.5, 1500);
-        assertEquals(List.of(), beyondLevels(Replay.standard(rs)));
+        assertEquals(List.of(), alarms(Replay.standard(rs)));
     }
 
     @Test

@@ -1,6 +1,6 @@
 package dev.watcher.detect;
 
-import static dev.watcher.detect.DetectorTestSupport.beyondLevels;
+import static dev.watcher.detect.DetectorTestSupport.alarms;
 import static dev.watcher.detect.DetectorTestSupport.of;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -32,12 +32,12 @@ class StalledOscillationDetectorTest {
         assertTrue(d.iter() >= 400 && d.iter() <= 600, "fired at " + d.iter());
         assertTrue(d.remedy().contains("relaxation factor"), d.remedy());
         assertTrue((double) d.evidence().get("decades_above_target") > 4);
-        assertEquals(List.of(d.iter() + " " + P + " open [mom-x, mom-y] " + d.summary()), beyondLevels(ds));
+        assertEquals(List.of(d.iter() + " " + P + " open [mom-x, mom-y] " + d.summary()), alarms(ds));
     }
 
     @Test
     void theSameProblemWithLowerRelaxationConvergesWithoutAlarm() {
-        assertEquals(List.of(), beyondLevels(Replay.standard(ResidualSolvers.burgersCavity(0.5, 1500, 0, 0))));
+        assertEquals(List.of(), alarms(Replay.standard(ResidualSolvers.burgersCavity(0.5, 1500, 0, 0))));
     }
 
     @Test

@@ -233,9 +233,23 @@ final class Assembly {
         }
     }
 
-    /** Parses {@code --set} overrides into detector parameter keys. */
-    static Map<String, String> overrides(Map<String, String> raw) {
-        return new LinkedHashMap<>(raw);
+    /**
+     * Checks the detector parameters that the rules (their tune sections, per run too) and {@code --set} give:
+     * every key must be one a detector reads, and numbers must be numbers.
+     */
+    static void checkParameters(RuleSet rules, List<RunSpec> runs, Map<String, String> cli) {
+        Map<String, String> all = new LinkedHashMap<>(rules.detectorOverrides());
+        for (RunSpec r : runs) {
+            all.putAll(rules.forRun(r.name()).detectorOverrides());
+        }
+        List<String> fromRules = dev.watcher.daemon.Pipelines.parameterProblems(all);
+        if (!fromRules.isEmpty()) {
+            throw new Main.UserError("rules file: " + String.join("; ", fromRules));
+        }
+        List<String> fromCli = dev.watcher.daemon.Pipelines.parameterProblems(cli);
+        if (!fromCli.isEmpty()) {
+            throw new Main.UserError("--set: " + String.join("; ", fromCli));
+        }
     }
 
     /** State folder names. */

@@ -45,8 +45,16 @@ final class CheckCommand implements Callable<Integer> {
                 if (kind.equals("format")) {
                     formats.add(Formats.load(f.toString(), text));
                 } else if (kind.equals("rules")) {
-                    RulesLoader.load(f.toString(), text, RulesLoader.load("rules/default.yaml",
+                    var rules = RulesLoader.load(f.toString(), text, RulesLoader.load("rules/default.yaml",
                             RulesLoader.defaultText(), null));
+                    java.util.Map<String, String> all = new java.util.LinkedHashMap<>(rules.detectorOverrides());
+                    for (var rr : rules.runs()) {
+                        all.putAll(rr.tune());
+                    }
+                    List<String> problems = dev.watcher.daemon.Pipelines.parameterProblems(all);
+                    if (!problems.isEmpty()) {
+                        throw new Main.UserError(f + ": " + String.join("; ", problems));
+                    }
                 } else {
                     throw new InputFileException(f.toString(), line(text), 7, "kind: format or kind: rules, found '"
                             + kind + "'");

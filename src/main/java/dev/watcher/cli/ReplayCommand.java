@@ -40,7 +40,9 @@ final class ReplayCommand implements Callable<Integer> {
                 }
             }
         }
-        DaemonConfig c = new DaemonConfig(runs, Assembly.rules(o.rules), o.overrides,
+        dev.watcher.rules.RuleSet rules = Assembly.rules(o.rules);
+        Assembly.checkParameters(rules, runs, o.overrides);
+        DaemonConfig c = new DaemonConfig(runs, rules, o.overrides,
                 Assembly.quickChannels(holder.channels), Assembly.stateDir(o, runs, ".replay"), o.timeline, false,
                 Map.of(), false, null, null, notify, null, null, null, null, System.out, o.quiet, null);
         try {

@@ -107,7 +107,9 @@ final class WatchCommand implements Callable<Integer> {
             System.err.println("watcher: note: --stop without --job: stop actions can only write a stop file"
                     + " where the rules ask for one");
         }
-        DaemonConfig c = new DaemonConfig(runs, Assembly.rules(o.rules), o.overrides,
+        dev.watcher.rules.RuleSet rules = Assembly.rules(o.rules);
+        Assembly.checkParameters(rules, runs, o.overrides);
+        DaemonConfig c = new DaemonConfig(runs, rules, o.overrides,
                 Assembly.quickChannels(holder.channels), Assembly.stateDir(o, runs, ".watcher"), o.timeline, fromEnd,
                 jobMap, stop, stopPolicy(), http, false, Duration.ofMillis(pollMs), Duration.ofMillis(idlePollMs),
                 Duration.ofSeconds(silenceMin), null, System.out, o.quiet, null);

@@ -13,7 +13,7 @@ import java.util.List;
 import java.util.Map;
 
 /** Assembles one run's pipeline from its spec, the rules and the command line's overrides. */
-final class Pipelines {
+public final class Pipelines {
 
     private Pipelines() {
     }
@@ -26,6 +26,36 @@ final class Pipelines {
             families.putAll(f.families());
         }
         return DetectSettings.of(ov, families);
+    }
+
+    /**
+     * Problems with detector parameter overrides (from the rules' tune sections and --set): keys no detector
+     * reads, and values that are not numbers where a number is expected. Empty when all are fine.
+     */
+    public static List<String> parameterProblems(Map<String, String> overrides) {
+        DetectSettings s = DetectSettings.of(overrides, Map.of());
+        Detectors.standard(s);
+        Map<String, String> used = s.used();
+        List<String> problems = new ArrayList<>();
+        for (Map.Entry<String, String> e : overrides.entrySet()) {
+            String inForce = used.get(e.getKey());
+            if (inForce == null) {
+                problems.add("unknown detector parameter '" + e.getKey() + "' (known: " + String.join(", ",
+                        new java.util.TreeSet<>(used.keySet())) + ")");
+            } else if (isNumber(inForce) && !isNumber(e.getValue())) {
+                problems.add("detector parameter '" + e.getKey() + "' expects a number, found '" + e.getValue() + "'");
+            }
+        }
+        return problems;
+    }
+
+    private static boolean isNumber(String v) {
+        try {
+            Double.parseDouble(v.trim());
+            return true;
+        } catch (NumberFormatException e) {
+            return false;
+        }
     }
 
     static RunPipeline build(RunSpec spec, RuleSet rules, Map<String, String> cliOverrides, RunOutputs out, int joinBound,

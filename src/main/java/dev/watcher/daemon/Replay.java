@@ -89,7 +89,9 @@ public final class Replay {
             }
         };
         RunPipeline p = Pipelines.build(spec, c.rules(), c.overrides(), out, 1_000_000, c.clock());
-        p.decider().setCatchingUp(!c.sendNotices());
+        // Holds and gathering run on wall time, which a full-speed replay does not give them: the rules keep
+        // their state while the log is read, and with --notify what is still open at the end is sent.
+        p.decider().setCatchingUp(true);
         journal.append(PendingEvent.run(spec.name(), 0, "started", "replay of " + describe(spec.sources())));
         for (int i = 0; i < spec.sources().size(); i++) {
             Path src = spec.sources().get(i);
@@ -110,7 +112,12 @@ public final class Replay {
             }, TailOptions.DEFAULTS);
         }
         p.flush();
-        p.tick();
+        if (c.sendNotices()) {
+            p.decider().setCatchingUp(false);
+            for (Notice n : p.decider().caughtUp()) {
+                out.notice(n);
+            }
+        }
         journal.append(PendingEvent.run(spec.name(), p.lastIter(), "ended", "end of the log (replay)"));
         history.save();
         Map<String, Object> runState = new LinkedHashMap<>();

@@ -57,7 +57,11 @@ public final class Formats {
      *         regular expression that does not compile (the column then points at the error in it)
      */
     public static FormatSpec load(String fileName, String yamlText) throws InputFileException {
-        return new Reader(fileName).read(yamlText == null ? "" : yamlText);
+        String text = yamlText == null ? "" : yamlText;
+        if (text.startsWith("\uFEFF")) {
+            text = text.substring(1); // a byte order mark some editors write
+        }
+        return new Reader(fileName).read(text);
     }
 
     /** One file's reading; remembers the file name for messages. */

@@ -66,12 +66,13 @@ final class JsonlParser implements LineParser, LinePieces.Piece {
         try (JsonParser p = JSON.createParser(text)) {
             parseRecord(p);
         } catch (Bad e) {
-            sink.malformed(e.kind, lineNo, e.getMessage());
+            sink.malformed(e.kind, lineNo, LinePieces.clip(e.getMessage(), 200));
         } catch (IOException | RuntimeException e) {
             // Jackson reports bad JSON as an IOException subclass; its message is long, keep its first line.
             String m = String.valueOf(e.getMessage());
             int nl = m.indexOf('\n');
-            sink.malformed(Malformed.BAD_SHAPE, lineNo, "not a JSON object: " + (nl < 0 ? m : m.substring(0, nl)));
+            sink.malformed(Malformed.BAD_SHAPE, lineNo,
+                    "not a JSON object: " + LinePieces.clip(nl < 0 ? m : m.substring(0, nl), 160));
         }
     }
 

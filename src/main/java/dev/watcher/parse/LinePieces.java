@@ -70,4 +70,10 @@ final class LinePieces {
     static boolean isSpace(char c) {
         return c == ' ' || c == '\t' || c == '\f' || c == '\u000b';
     }
+
+    /** At most {@code max} characters of {@code text} for a message, marked when cut. */
+    static String clip(CharSequence text, int max) {
+        String t = text.toString();
+        return t.length() <= max ? t : t.substring(0, max) + "...";
+    }
 }

@@ -254,7 +254,7 @@ final class RuleParser implements LineParser, LinePieces.Piece {
         }
         long v = Numbers.parseCounter(m.group(group), 0, m.end(group) - a);
         if (v < 0) {
-            spoil("\"" + group + "\": \"" + m.group(group) + "\" is not a whole number");
+            spoil("\"" + group + "\": \"" + LinePieces.clip(m.group(group), 60) + "\" is not a whole number");
             return IterationRecord.NONE;
         }
         return v;
@@ -269,7 +269,7 @@ final class RuleParser implements LineParser, LinePieces.Piece {
         String text = m.group(group);
         double v = Numbers.parse(text, 0, text.length());
         if (Numbers.isMalformed(v)) {
-            spoil("\"" + group + "\": \"" + text + "\" is not a number");
+            spoil("\"" + group + "\": \"" + LinePieces.clip(text, 60) + "\" is not a number");
         }
         return v;
     }

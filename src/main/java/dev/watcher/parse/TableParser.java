@@ -16,8 +16,8 @@ import java.util.List;
  *
  * <p>Which line is the header: once a header is known (or the format names the iteration column), a line
  * (commented or not) whose fields are all words and whose first field is the iteration column's name.
- * Before any header, without a named iteration column, the last line of words (commented or not, at least
- * two fields) that has as many fields as the first data row. A header after the first one (a reprint, or a
+ * Before any header, without a named iteration column, the latest line of words (commented or not, at least
+ * two fields, no control characters) that has as many fields as the first data row. A header after the first one (a reprint, or a
  * restart that added a column) replaces it and, unless the format says otherwise, starts a new segment.
  * Other lines that start with a word or the comment prefix (banners, warnings) are skipped. A data row with
  * the wrong number of fields is {@code bad-shape}; a field that is not a number is {@code bad-number}.
@@ -35,7 +35,10 @@ final class TableParser implements LineParser {
     private int count;
 
     private Header header;
-    private String[] pending; // a header candidate before the first data row (see the class comment)
+    /** Header candidates before the first data row, latest last (see the class comment); bounded. */
+    private final java.util.ArrayDeque<String[]> pending = new java.util.ArrayDeque<>();
+    private static final int MAX_CANDIDATES = 16;
+    private static final int MAX_NAME = 256;
 
     TableParser(TableSettings settings) {
         this.settings = settings;
@@ -324,6 +327,15 @@ final class TableParser implements LineParser {
             if (ends[k] == starts[k] || !Numbers.isMalformed(Numbers.parse(s, starts[k], ends[k]))) {
                 return; // a number among the words: a banner such as "restart from pass 800"
             }
+            if (ends[k] - starts[k] > MAX_NAME) {
+                return; // no column name is that long
+            }
+            for (int i = starts[k]; i < ends[k]; i++) {
+                char c = s.charAt(i);
+                if (c < ' ' || c == 0x7f || c == '\uFFFD') {
+                    return; // control characters or undecodable bytes: not a column name
+                }
+            }
         }
         String iterName = settings.iteration() != null ? settings.iteration()
                 : header != null ? header.names[0] : null;
@@ -335,7 +347,10 @@ final class TableParser implements LineParser {
             names[k] = unquote(s.subSequence(starts[k], ends[k]).toString());
         }
         if (iterName == null) {
-            pending = names; // confirmed by the first data row
+            if (pending.size() == MAX_CANDIDATES) {
+                pending.removeFirst();
+            }
+            pending.addLast(names); // the first data row picks the latest one of its width
             return;
         }
         install(names, lineNo, sink);
@@ -369,10 +384,14 @@ final class TableParser implements LineParser {
     private void row(CharSequence s, long lineNo, ParseSink sink) {
         Header h = header;
         if (h == null) {
-            if (pending != null && pending.length == count) {
-                install(pending, lineNo, sink);
-                pending = null;
-                h = header;
+            for (java.util.Iterator<String[]> it = pending.descendingIterator(); it.hasNext();) {
+                String[] candidate = it.next();
+                if (candidate.length == count) {
+                    install(candidate, lineNo, sink);
+                    pending.clear();
+                    h = header;
+                    break;
+                }
             }
             if (h == null) {
                 sink.malformed(Malformed.BAD_SHAPE, lineNo, "a data row before any header line with " + count
@@ -451,7 +470,7 @@ final class TableParser implements LineParser {
 
     private void bad(CharSequence s, long lineNo, ParseSink sink, Header h, int k, String expected) {
         sink.malformed(Malformed.BAD_NUMBER, lineNo, "column \"" + h.names[k] + "\": \""
-                + s.subSequence(starts[k], ends[k]) + "\" is not " + expected);
+                + LinePieces.clip(s.subSequence(starts[k], ends[k]), 60) + "\" is not " + expected);
     }
 
     /** One header's column roles, computed once and shared by every row under it. */

@@ -305,8 +305,11 @@ final class RuleParser implements LineParser, LinePieces.Piece {
             long last = segments.lastIter();
             it = last == Long.MIN_VALUE ? 1 : last + 1;
         }
+        // An inner iteration counts within a time step; with neither a step nor a time the run is steady and
+        // the number is only a sweep counter (a steady sweep block prints "sweep N (pass N)").
+        long in = step == IterationRecord.NONE && Double.isNaN(time) ? IterationRecord.NONE : inner;
         int segment = segments.before(it, lastLine, sink);
-        sink.record(new IterationRecord(it, step, time, inner, residuals.finish(), monitors.finish(), segment,
+        sink.record(new IterationRecord(it, step, time, in, residuals.finish(), monitors.finish(), segment,
                 lastLine));
     }
 

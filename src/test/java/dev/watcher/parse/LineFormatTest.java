@@ -285,4 +285,13 @@ class LineFormatTest {
         assertEquals(1, s.records.size());
         assertEquals(3, s.records.get(0).line());
     }
+
+    @Test
+    void aSteadySweepBlockWithoutStepLinesGivesNoInnerIteration() throws Exception {
+        ListSink s = ListSink.run(parser(SWEEP_BLOCK), ".. sweep 7 (pass 7)", "   cont 1e-2", ".. sweep 8 (pass 8)",
+                "   cont 9e-3");
+        assertEquals(2, s.records.size());
+        assertEquals(false, s.records.get(0).hasInner());
+        assertEquals(false, s.records.get(1).hasStep());
+    }
 }

@@ -73,7 +73,8 @@ public final class FormatSample {
         if (totals[0] > maxRecords) {
             out.append(" (first ").append(maxRecords).append(" shown)");
         }
-        out.append(", ").append(totals[2]).append(" new segments, ").append(totals[1]).append(" malformed");
+        out.append(", ").append(totals[2]).append(totals[2] == 1 ? " new segment, " : " new segments, ")
+                .append(totals[1]).append(" malformed");
         if (!byKind.isEmpty()) {
             out.append(" (");
             String sep = "";

@@ -25,7 +25,7 @@ class FormatSampleTest {
         assertEquals("line 2: malformed, bad-number: \"residual\": \"1.2.3e-4\" is not a number", lines[3]);
         assertEquals("line 3: segment 1 starts (restart declared: ** restart from snapshot pass 1)", lines[4]);
         assertEquals("line 4: iter 2 segment 1 | residuals cont=0.05000 | monitors (none)", lines[5]);
-        assertEquals("5 lines: 3 records (first 2 shown), 1 new segments, 1 malformed (bad-number 1)", lines[6]);
+        assertEquals("5 lines: 3 records (first 2 shown), 1 new segment, 1 malformed (bad-number 1)", lines[6]);
     }
 
     @Test

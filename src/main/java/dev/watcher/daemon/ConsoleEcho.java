@@ -33,14 +33,15 @@ final class ConsoleEcho implements Consumer<TimelineEvent> {
         StringBuilder b = new StringBuilder(160);
         b.append(HMS.format(e.at())).append("  ").append(e.run()).append("  #").append(e.seq()).append("  ");
         String sev = e.severity() == null ? "info" : e.severity().id();
-        b.append(String.format(Locale.ROOT, "%-8s", sev.toUpperCase(Locale.ROOT)));
+        b.append(String.format(Locale.ROOT, "%-9s", sev.toUpperCase(Locale.ROOT)));
         String what;
         if (e.type() == EventType.DETECTION) {
             what = e.pattern();
         } else if (e.type() == EventType.NOTICE) {
             what = "notice " + e.fields().get("channel");
         } else if (e.type() == EventType.ACTION) {
-            what = "action " + e.fields().get("method");
+            Object m = e.fields().get("method");
+            what = m == null ? "action" : "action " + m;
         } else {
             what = "run";
         }

@@ -94,9 +94,15 @@ public final class Daemon {
             runs.add(r);
             await(vertx.deployVerticle(r, new DeploymentOptions().setThreadingModel(ThreadingModel.WORKER)), 30);
         }
-        if (endWithJobs) {
-            jobs.onEnd(() -> shutdown("the watched job ended"));
+        Map<String, WatchedRun> byName = new LinkedHashMap<>();
+        for (WatchedRun r : runs) {
+            byName.put(r.spec().name(), r);
         }
+        jobs.onEnd((run, job) -> byName.get(run).jobEnded(job).toCompletionStage().toCompletableFuture(), () -> {
+            if (endWithJobs) {
+                shutdown("every watched job ended");
+            }
+        });
         if (!config.quiet()) {
             config.out().println("watching " + runs.size() + " run(s); timeline: " + journal.file().toAbsolutePath()
                     + "; stop with Ctrl-C or SIGTERM");

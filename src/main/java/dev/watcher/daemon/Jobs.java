@@ -5,7 +5,6 @@ import dev.watcher.act.JobRef;
 import dev.watcher.act.StopCoordinator;
 import dev.watcher.act.StopPolicy;
 import dev.watcher.journal.Journal;
-import dev.watcher.model.PendingEvent;
 import dev.watcher.model.StopRequest;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -81,15 +80,18 @@ final class Jobs implements AutoCloseable {
         };
     }
 
-    /** Calls {@code r} once, when every attached job has ended (never when no job is attached). */
-    void onEnd(Runnable r) {
+    /**
+     * Calls {@code perRun} with the run's name and job description when that run's job ends, and
+     * {@code all} once every attached job has ended (never when no job is attached).
+     */
+    void onEnd(java.util.function.BiFunction<String, String, CompletableFuture<Void>> perRun, Runnable all) {
         if (controls.isEmpty()) {
             return;
         }
         List<CompletableFuture<Void>> ends = new ArrayList<>();
-        controls.forEach((run, c) -> ends.add(c.onEnd().thenRun(() -> journal.append(PendingEvent.run(run,
-                0, "ended", "the watched job " + c.job().describe() + " ended")))));
-        CompletableFuture.allOf(ends.toArray(CompletableFuture[]::new)).thenRun(r);
+        controls.forEach((run, c) -> ends.add(c.onEnd().thenCompose(v -> perRun.apply(run, c.job().describe()))
+                .exceptionally(t -> null)));
+        CompletableFuture.allOf(ends.toArray(CompletableFuture[]::new)).thenRun(all);
     }
 
     @Override

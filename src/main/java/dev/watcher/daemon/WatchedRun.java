@@ -64,7 +64,6 @@ final class WatchedRun extends VerticleBase {
     private boolean caughtUp;
     private boolean stopped;
     private long timerId = -1;
-    private Duration delay;
     private Instant lastSave = Instant.EPOCH;
     private long savedRecords = -1;
 
@@ -132,7 +131,6 @@ final class WatchedRun extends VerticleBase {
                 f.poll((line, lineNo) -> { }); // skip the history: read to the end, drop the lines
             }
         }
-        delay = config.pollMin();
         schedule(0);
         return Future.succeededFuture();
     }
@@ -183,34 +181,72 @@ final class WatchedRun extends VerticleBase {
         if (stopped) {
             return;
         }
-        int lines = 0;
+        Duration next = config.pollMax();
         try {
-            for (int i = 0; i < followers.size(); i++) {
-                final int source = i;
-                lines += followers.get(i).poll(new LineHandler() {
-                    @Override
-                    public void line(CharSequence line, long lineNo) {
-                        pipeline.line(source, line, lineNo);
-                    }
-
-                    @Override
-                    public void notice(TailNotice n) {
-                        Daemon.tailNotice(pipeline, n);
-                    }
-                });
-            }
-            if (lines == 0 && !caughtUp) {
+            boolean atEnd = pollAll();
+            if (atEnd && !caughtUp) {
                 caughtUp();
             }
             Optional<Detection> quiet = silence.check();
             quiet.ifPresent(pipeline::external);
             pipeline.tick();
             maybeSave(false);
+            for (FileFollower f : followers) {
+                Duration d = f.nextDelay();
+                next = d.compareTo(next) < 0 ? d : next;
+            }
         } catch (RuntimeException e) {
             LOG.error("{}: poll failed; going on", spec.name(), e);
         }
-        delay = lines > 0 ? config.pollMin() : min(delay.multipliedBy(2), config.pollMax());
-        schedule(delay.toMillis());
+        schedule(next.toMillis());
+    }
+
+    /** Polls every follower once; true when each has read up to the end of its file as it was. */
+    private boolean pollAll() {
+        boolean atEnd = true;
+        for (int i = 0; i < followers.size(); i++) {
+            final int source = i;
+            followers.get(i).poll(new LineHandler() {
+                @Override
+                public void line(CharSequence line, long lineNo) {
+                    pipeline.line(source, line, lineNo);
+                }
+
+                @Override
+                public void notice(TailNotice n) {
+                    Daemon.tailNotice(pipeline, n);
+                }
+            });
+            atEnd &= followers.get(i).atEnd();
+        }
+        return atEnd;
+    }
+
+    /**
+     * The run's job ended: read what the solver wrote last, complete a record still being assembled, and end
+     * the run. Runs on the run's context.
+     */
+    Future<Void> jobEnded(String job) {
+        io.vertx.core.Promise<Void> p = io.vertx.core.Promise.promise();
+        context.runOnContext(v -> {
+            try {
+                if (!stopped) {
+                    for (int i = 0; i < 1000 && !pollAll(); i++) {
+                        // drain what is left, in budgeted bites
+                    }
+                    pipeline.flush();
+                    if (!caughtUp) {
+                        caughtUp();
+                    }
+                    pipeline.tick();
+                    end("the watched job " + job + " ended");
+                }
+                p.complete();
+            } catch (RuntimeException e) {
+                p.fail(e);
+            }
+        });
+        return p.future();
     }
 
     private static Duration min(Duration a, Duration b) {

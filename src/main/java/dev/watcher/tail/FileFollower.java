@@ -172,6 +172,14 @@ public final class FileFollower implements AutoCloseable {
                 splitter.lineNo(), fingerprint(firstBytes, firstBytes.length));
     }
 
+    /**
+     * True when the last poll read up to the end of the file as it was then (nothing seen is left unread):
+     * the daemon is caught up with the file's history.
+     */
+    public boolean atEnd() {
+        return !moreNow;
+    }
+
     /** True when the last poll found nothing new (the caller may back off). */
     public boolean idle() {
         return !grewLastPoll && !moreNow;

@@ -40,8 +40,8 @@ rate() { awk -v b="$bytes" -v s="$1" -v n="$lines" 'BEGIN{printf "%.0f records/s
 ratio() { awk -v a="$1" -v b="$2" 'BEGIN{printf "%.2f", a/b}'; }
 
 has_replay=0
-if [[ -x "$root/watcher" ]] && "$root/watcher" replay --help >/dev/null 2>&1; then
-  has_replay=1
+if [[ -x "$root/watcher" ]] && "$root/watcher" build >/dev/null && "$root/watcher" replay --help >/dev/null 2>&1; then
+  has_replay=1   # built before timing, so no build lands inside the measurement
 fi
 
 run_one() {
@@ -70,9 +70,11 @@ run_one() {
 
   if [[ "$has_replay" == 1 ]]; then
     local state="$work/state-$lines"; rm -rf "$state"; mkdir -p "$state"
-    JAVA_TOOL_OPTIONS="-Xmx$xmx ${JAVA_TOOL_OPTIONS:-}" timed "$root/watcher" replay "$file" --format table \
-      --state "$state"
-    echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (-Xmx$xmx)"
+    WATCHER_HEAP="$xmx" WATCHER_JAVA_OPTS="-Xlog:gc:file=$work/gc-$lines.log ${WATCHER_JAVA_OPTS:-}" \
+      timed "$root/watcher" replay "$file" --format table --state "$state"
+    # peak heap: the largest heap occupancy the GC log shows before a collection
+    local peak; peak=$(grep -o '[0-9]*M->' "$work/gc-$lines.log" 2>/dev/null | sed 's/M->//' | sort -n | tail -1 || true)
+    echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (-Xmx$xmx, peak heap ${peak:-?} MB by GC log)"
     [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
     tail -n 3 "$work/out" | sed 's/^/                /'
   else

@@ -37,7 +37,7 @@ final class Receiver implements AutoCloseable {
 
     /** One request as received. */
     record Hit(String path, String id, String contentType, byte[] body, boolean signed, boolean signatureValid,
-            int status) {
+            int status, String timestamp) {
         JsonObject json() {
             return new JsonObject(new String(body, StandardCharsets.UTF_8));
         }
@@ -99,7 +99,8 @@ final class Receiver implements AutoCloseable {
             synchronized (this) {
                 int nth = seen.merge(id, 1, Integer::sum);
                 reply = (key != null && !valid) ? Reply.of(401) : script.reply(id, nth);
-                hits.add(new Hit(req.path(), id, req.getHeader("content-type"), body, signed, valid, reply.status()));
+                hits.add(new Hit(req.path(), id, req.getHeader("content-type"), body, signed, valid, reply.status(),
+                        req.getHeader("webhook-timestamp")));
                 if (reply.status() / 100 == 2) {
                     accepted.merge(id, 1, Integer::sum);
                 }

@@ -20,6 +20,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Clock;
 import java.time.Duration;
+import java.time.Instant;
 import java.util.Base64;
 import java.util.List;
 import java.util.Map;
@@ -65,9 +66,18 @@ class WebhookDeliveryIT {
         vertx.close().toCompletionStage().toCompletableFuture().get(10, TimeUnit.SECONDS);
     }
 
+    /**
+     * A signed channel. The per-attempt timeout is generous (the build machine is shared and busy): a reply
+     * that the client gives up on would be sent again, which is right but would blur the counts here. Only
+     * the slow-reply test uses a short one.
+     */
     private WebhookSpec hook(String name, String path, String body, int attempts) {
+        return hook(name, path, body, attempts, Duration.ofSeconds(5));
+    }
+
+    private WebhookSpec hook(String name, String path, String body, int attempts, Duration timeout) {
         return new WebhookSpec(name, SecretRef.ofLiteral(receiver.url(path)), SecretRef.ofFile(secretFile.toString()),
-                body, Duration.ofMillis(400), attempts, Duration.ofMillis(200));
+                body, timeout, attempts, Duration.ofMillis(200));
     }
 
     private Dispatcher dispatcher(Path outbox, List<ChannelSpec> channels, RecordingSink sink) {
@@ -89,11 +99,12 @@ class WebhookDeliveryIT {
         receiver.script((id, nth) -> switch (nth) {
             case 1 -> Receiver.Reply.of(500);
             case 2 -> new Receiver.Reply(429, Map.of("Retry-After", "1"), 0);
-            case 3 -> new Receiver.Reply(500, Map.of(), 2000);
+            case 3 -> new Receiver.Reply(500, Map.of(), 6000);
             default -> Receiver.Reply.of(200);
         });
         RecordingSink sink = new RecordingSink();
-        Dispatcher d = dispatcher(dir.resolve("outbox"), List.of(hook("ops", "/in", "native", 6)), sink);
+        Dispatcher d = dispatcher(dir.resolve("outbox"),
+                List.of(hook("ops", "/in", "native", 6, Duration.ofMillis(1500))), sink);
         get(d.start());
         d.submit(Notices.blowup("n-1", "ops"));
         awaitFinished(sink, "n-1");
@@ -103,7 +114,7 @@ class WebhookDeliveryIT {
         assertEquals(List.of(0, 1, 2, 3, 4), ev.stream().map(e -> e.fields().get("attempt")).toList());
         assertTrue(ev.get(1).fields().get("error").toString().contains("HTTP 500"));
         assertTrue(ev.get(2).fields().get("error").toString().contains("HTTP 429"));
-        assertTrue(ev.get(3).fields().get("error").toString().contains("within 400 ms"));
+        assertTrue(ev.get(3).fields().get("error").toString().contains("within 1500 ms"));
         assertNull(ev.get(4).fields().get("error"));
         TimelineEvent sent = ev.get(4);
         assertEquals(EventType.NOTICE, sent.type());
@@ -120,6 +131,50 @@ class WebhookDeliveryIT {
         assertEquals("hx-header-07", hits.get(3).json().getString("run"));
         await().atMost(WAIT).until(() -> d.pending() == 0);
         assertFalse(d.inOutbox("n-1"));
+    }
+
+    @Test
+    void noticeIsOnDiskBeforeTheFirstAttemptAndGoneAfterSuccess() throws Exception {
+        Path outbox = dir.resolve("outbox");
+        AtomicBoolean onDiskAtFirstRequest = new AtomicBoolean(false);
+        RecordingSink sink = new RecordingSink();
+        Outbox probe = new Outbox(outbox, 100);
+        receiver.script((id, nth) -> {
+            if (nth == 1) {
+                onDiskAtFirstRequest.set(probe.holds(id));
+            }
+            return Receiver.Reply.of(200);
+        });
+        Dispatcher d = dispatcher(outbox, List.of(hook("ops", "/in", "native", 3)), sink);
+        d.submit(Notices.blowup("n-disk", "ops"));
+        awaitFinished(sink, "n-disk");
+        await().atMost(WAIT).until(d::settled);
+        assertTrue(onDiskAtFirstRequest.get(), "written to the outbox before the first attempt");
+        assertFalse(probe.holds("n-disk"));
+    }
+
+    @Test
+    void submitFromAnEventLoopThreadIsDeliveredToo() throws Exception {
+        RecordingSink sink = new RecordingSink();
+        Dispatcher d = dispatcher(dir.resolve("outbox"), List.of(hook("ops", "/in", "native", 3)), sink);
+        vertx.runOnContext(v -> d.submit(Notices.blowup("n-loop", "ops")));
+        awaitFinished(sink, "n-loop");
+        assertEquals(List.of("queued", "sent"), sink.states("n-loop"));
+        assertEquals(1, receiver.accepted("n-loop"));
+    }
+
+    @Test
+    void signatureTimestampComesFromTheInjectedClock() throws Exception {
+        Instant then = Instant.now().minusSeconds(90).truncatedTo(java.time.temporal.ChronoUnit.SECONDS);
+        RecordingSink sink = new RecordingSink();
+        Dispatcher d = new Dispatcher(vertx, dir.resolve("outbox"), List.of(hook("ops", "/in", "native", 3)), sink,
+                Clock.fixed(then, java.time.ZoneOffset.UTC), fast);
+        dispatchers.add(d);
+        d.submit(Notices.blowup("n-clock", "ops"));
+        awaitFinished(sink, "n-clock");
+        Receiver.Hit hit = receiver.hits("n-clock").get(0);
+        assertEquals(Long.toString(then.getEpochSecond()), hit.timestamp());
+        assertTrue(hit.signatureValid());
     }
 
     @Test
@@ -208,7 +263,8 @@ class WebhookDeliveryIT {
         awaitFinished(third, "n-d");
 
         for (String id : List.of("n-a", "n-b", "n-c", "n-d")) {
-            assertEquals(1, receiver.accepted(id), id + " accepted exactly once");
+            assertEquals(1, receiver.accepted(id), id + " accepted exactly once; timelines " + first.states(id)
+                    + second.states(id) + third.states(id));
         }
         assertTrue(receiver.hits().stream().allMatch(Receiver.Hit::signatureValid));
     }
@@ -265,7 +321,7 @@ class WebhookDeliveryIT {
         Receiver open = new Receiver(vertx, null).start();
         try {
             WebhookSpec chat = new WebhookSpec("chat", SecretRef.ofLiteral(open.url("/chat")), null, "text",
-                    Duration.ofMillis(400), 3, Duration.ofMillis(200));
+                    Duration.ofSeconds(5), 3, Duration.ofMillis(200));
             RecordingSink sink = new RecordingSink();
             Dispatcher d = dispatcher(dir.resolve("outbox"), List.of(chat), sink);
             d.submit(Notices.blowup("n-chat", "chat"));

@@ -31,20 +31,23 @@ import java.util.function.Consumer;
  *
  * <p>Forecasts, per equation: the iterations to reach the target from a Theil–Sen fit of log10 r against
  * the iteration since the last regime change (the segment's start, or the last rise of more than {@code
- * regime_jump_decades} between samples), within {@code forecast_window} samples, with Sen's 95 % interval;
+ * regime_jump_decades} between samples), within {@code forecast_window} samples (thinned evenly to at most 100 points), with Sen's 95 % interval;
  * "not converging" when the interval's upper slope bound is not below zero. Per monitor: the predicted final
  * value and remaining iterative error (geometric/Aitken estimate, {@link MonitorJudge#settled}).
  *
  * <p>Parameters ({@code converged.}): {@code residual_target} (1e-5 absolute, common practice), per equation
  * {@code residual_target.<equation>}; {@code drop_orders} (0 = off) and {@code drop_orders.<equation>}: when
  * set, the equation's target is its maximum since the run began divided by 10^drop_orders (for solvers that
- * print raw residuals); {@code hold} samples (10); {@code every} samples between monitor judgements (10);
+ * print raw residuals); {@code hold} samples (10); {@code every} samples between monitor judgements (25);
  * {@code resolve_decades} (0.5: a residual must rise this far above its target to count against an open
- * verdict); {@code clear_checks} (3); {@code forecast_window} (200); {@code forecast_every} (50); {@code
+ * verdict); {@code clear_checks} (3); {@code forecast_window} (200); {@code forecast_every} (50: forecasts are computed on demand, at most once per that many samples); {@code
  * regime_jump_decades} (1.0). Monitor tolerances come from {@code monitor-settled.*} and {@code
  * monitor-periodic.*}; the relaxed monitor tolerance while open is {@code monitor-settled.resolve_factor} (2).
  */
 final class ConvergedDetector implements Detector {
+
+    /** At most this many points enter a Theil–Sen forecast fit (the window is thinned evenly). */
+    static final int FORECAST_POINTS = 100;
 
     /** One equation's forecast. {@code status}: reached, converging, not converging, unknown. */
     record Forecast(String status, double iterations, double low, double high, double slopeDecadesPerIter) {
@@ -76,6 +79,7 @@ final class ConvergedDetector implements Detector {
     private List<String> waitingFor = List.of();
     private double longestPeriod;
     private long samples;
+    private long forecastsAt = -1;
     private long lastIter;
     private boolean open;
     private boolean openResidualsOnly;
@@ -88,7 +92,7 @@ final class ConvergedDetector implements Detector {
         this.target = s.number(p + "residual_target", 1e-5);
         this.dropOrders = s.number(p + "drop_orders", 0);
         this.hold = Math.max(1, s.integer(p + "hold", 10));
-        this.every = Math.max(1, s.integer(p + "every", 10));
+        this.every = Math.max(1, s.integer(p + "every", 25));
         this.resolveDecades = s.number(p + "resolve_decades", 0.5);
         this.clearChecks = Math.max(1, s.integer(p + "clear_checks", 3));
         this.forecastWindow = Math.max(10, s.integer(p + "forecast_window", 200));
@@ -125,9 +129,6 @@ final class ConvergedDetector implements Detector {
         }
         addSample(sample, iter);
         samples++;
-        if (samples % forecastEvery == 0) {
-            updateForecasts();
-        }
         if (open) {
             checkOpen(out);
         } else if (samples % every == 0) {
@@ -252,6 +253,7 @@ final class ConvergedDetector implements Detector {
         if (!notOk.isEmpty() || !residualsHeld()) {
             return;
         }
+        forecastsAt = -1;
         updateForecasts();
         open = true;
         openResidualsOnly = monitors.names().isEmpty();
@@ -306,7 +308,15 @@ final class ConvergedDetector implements Detector {
         return e;
     }
 
+    /**
+     * Forecasts are computed on demand (snapshot, evidence), at most once per {@code forecast_every} samples:
+     * the Theil–Sen fit is the most expensive statistic here.
+     */
     private void updateForecasts() {
+        if (forecastsAt >= 0 && samples - forecastsAt < forecastEvery) {
+            return;
+        }
+        forecastsAt = samples;
         for (String eq : logs.keySet()) {
             forecasts.put(eq, forecast(eq));
         }
@@ -322,8 +332,8 @@ final class ConvergedDetector implements Detector {
         if (w == null || w.size() < 10 || !(t > 0)) {
             return new Forecast("unknown", Double.NaN, Double.NaN, Double.NaN, Double.NaN);
         }
-        double[] y = w.toArray();
-        double[] x = iters.get(eq).toArray();
+        double[] y = thin(w.toArray());
+        double[] x = thin(iters.get(eq).toArray());
         TheilSen ts = TheilSen.fit(x, y, y.length, 0.95);
         if (!(ts.high() < 0)) {
             return new Forecast("not converging", Double.NaN, Double.NaN, Double.NaN, ts.slope());
@@ -334,6 +344,20 @@ final class ConvergedDetector implements Detector {
             return new Forecast("reached", 0, 0, 0, ts.slope());
         }
         return new Forecast("converging", gap / ts.slope(), gap / ts.low(), gap / ts.high(), ts.slope());
+    }
+
+    /** Every k-th value (k so that at most FORECAST_POINTS remain), always keeping the newest. */
+    private static double[] thin(double[] v) {
+        int k = (v.length + FORECAST_POINTS - 1) / FORECAST_POINTS;
+        if (k <= 1) {
+            return v;
+        }
+        int m = (v.length - 1) / k + 1;
+        double[] t = new double[m];
+        for (int i = 0; i < m; i++) {
+            t[m - 1 - i] = v[v.length - 1 - i * k];
+        }
+        return t;
     }
 
     @Override
@@ -354,6 +378,7 @@ final class ConvergedDetector implements Detector {
      */
     @Override
     public Map<String, Object> snapshot() {
+        updateForecasts();
         Map<String, Object> m = new LinkedHashMap<>();
         String verdict = open ? (openResidualsOnly ? "residuals-only" : "converged")
                 : (!waitingFor.isEmpty() ? "held back" : "not yet");
@@ -383,6 +408,7 @@ final class ConvergedDetector implements Detector {
 
     /** The latest forecast of an equation, or null. */
     Forecast forecastOf(String eq) {
+        updateForecasts();
         return forecasts.get(eq);
     }
 }

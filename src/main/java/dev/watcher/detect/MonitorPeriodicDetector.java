@@ -19,7 +19,7 @@ import java.util.function.Consumer;
  * {@code resolve_factor}.
  *
  * <p>Parameters ({@code monitor-periodic.}): {@code window} samples (1024; the periodogram takes the latest
- * power of two of them), {@code every} samples between checks (16), {@code alpha} for Fisher's g (0.01),
+ * power of two of them), {@code every} samples between checks (32), {@code alpha} for Fisher's g (0.01),
  * {@code relative_tolerance} for the cycle-to-cycle spread (0.02, chosen from tests: sampling a cycle of
  * about twenty samples moves a measured amplitude by about 1 %), {@code absolute_tolerance} (1e-6),
  * {@code min_cycles} (4), {@code min_samples} (64), {@code clear_checks} (3), {@code resolve_factor} (2).
@@ -41,7 +41,7 @@ final class MonitorPeriodicDetector implements Detector {
         String p = Patterns.MONITOR_PERIODIC + ".";
         this.judge = new MonitorJudge(settings);
         this.series = new MonitorSeries(Math.max(64, settings.integer(p + "window", 1024)));
-        this.every = Math.max(1, settings.integer(p + "every", 16));
+        this.every = Math.max(1, settings.integer(p + "every", 32));
         this.clearChecks = Math.max(1, settings.integer(p + "clear_checks", 3));
         this.resolveFactor = Math.max(1, settings.number(p + "resolve_factor", 2));
     }

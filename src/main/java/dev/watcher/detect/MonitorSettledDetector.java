@@ -18,7 +18,7 @@ import java.util.function.Consumer;
  * consecutive checks (hysteresis: noise at the tolerance's edge does not flap the condition).
  *
  * <p>Parameters ({@code monitor-settled.}): {@code window} samples judged (1000), {@code every} samples
- * between judgements (10), {@code relative_tolerance} (0.001, common practice, no published source),
+ * between judgements (25), {@code relative_tolerance} (0.001, common practice, no published source),
  * {@code absolute_tolerance} in the monitor's units for monitors near zero (1e-6), {@code min_samples} (100),
  * {@code batches} for the batch means (20, kept within 10..30), {@code confidence} of the interval (0.95),
  * {@code clear_checks} (3), {@code resolve_factor} (2). In unsteady runs a sample is a step's last inner
@@ -41,7 +41,7 @@ final class MonitorSettledDetector implements Detector {
         String p = Patterns.MONITOR_SETTLED + ".";
         this.judge = new MonitorJudge(settings);
         this.series = new MonitorSeries(Math.max(50, settings.integer(p + "window", 1000)));
-        this.every = Math.max(1, settings.integer(p + "every", 10));
+        this.every = Math.max(1, settings.integer(p + "every", 25));
         this.clearChecks = Math.max(1, settings.integer(p + "clear_checks", 3));
         this.resolveFactor = Math.max(1, settings.number(p + "resolve_factor", 2));
     }

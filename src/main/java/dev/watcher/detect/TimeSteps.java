@@ -44,7 +44,7 @@ final class TimeSteps {
     private double time = Double.NaN;
     private Map<String, Double> peak;
     private Map<String, Double> floor;
-    private Map<String, Double> monitors;
+    private Samples monitors = Samples.EMPTY;
     private Samples previous;
     private long count;
     private final int[] lengths = new int[REGULAR_STEPS];
@@ -107,7 +107,7 @@ final class TimeSteps {
         }
         Step done = null;
         if (boundary) {
-            done = new Step(stepIndex, firstIter, lastIter, records, time, peak, floor, monitors);
+            done = new Step(stepIndex, firstIter, lastIter, records, time, peak, floor, monitors.toMap());
             count++;
             if (!r.hasStep() && !r.hasInner()) {
                 System.arraycopy(lengths, 1, lengths, 0, REGULAR_STEPS - 1);
@@ -132,7 +132,7 @@ final class TimeSteps {
             floor.put(s.name(i), s.value(i));
             peak.putIfAbsent(s.name(i), s.value(i));
         }
-        monitors = r.monitors().toMap();
+        monitors = r.monitors();
         lastIter = r.iter();
         lastInner = r.inner();
         time = r.time();

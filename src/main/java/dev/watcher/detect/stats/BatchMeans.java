@@ -61,8 +61,15 @@ public record BatchMeans(int batches, int batchSize, double mean, double halfWid
         return new BatchMeans(batches, size, grand, t * sd / Math.sqrt(batches), confidence, m);
     }
 
-    /** Student's t quantile (Commons Math), without creating a random generator. */
+    private static final java.util.concurrent.ConcurrentHashMap<String, Double> T_QUANTILES =
+            new java.util.concurrent.ConcurrentHashMap<>();
+
+    /**
+     * Student's t quantile (Commons Math, without creating a random generator). Remembered per (df, p): the
+     * detectors ask for a handful of them over and over, and the inversion is iterative.
+     */
     public static double tQuantile(int degreesOfFreedom, double p) {
-        return new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p);
+        return T_QUANTILES.computeIfAbsent(degreesOfFreedom + ":" + p,
+                k -> new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p));
     }
 }

@@ -6,7 +6,8 @@ package dev.watcher.detect.stats;
  * Gaussian white noise P(G &gt; g) = sum_{j=1}^{floor(1/g)} (-1)^{j-1} C(m, j) (1 - j g)^{m-1}.
  *
  * <p>The alternating sum loses precision when g is small and m large; those are p-values near one, where
- * only "not significant" matters. The result is clamped to [0, 1].
+ * only "not significant" matters: when the first term m (1 - g)^(m-1), an upper bound, is at least 1, the
+ * p-value is reported as 1. The result is clamped to [0, 1].
  *
  * @param g      the statistic
  * @param m      number of ordinates
@@ -41,6 +42,11 @@ public record FisherG(double g, int m, int peak, double pValue) {
         }
         if (g >= 1) {
             return 0.0;
+        }
+        // the first term m (1 - g)^(m-1) bounds the p-value from above (Bonferroni); at or above 1 the statistic
+        // is nowhere near significance, and the alternating sum would only lose itself in cancellation
+        if (Math.log(m) + (m - 1) * Math.log1p(-g) >= 0) {
+            return 1.0;
         }
         int top = (int) Math.floor(1 / g);
         double sum = 0;

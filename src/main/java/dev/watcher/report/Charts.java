@@ -46,13 +46,16 @@ final class Charts {
             levels.add(l);
         }
         spec.set("spans", spans(events, e -> e.monitor() == null && !isMonitorPattern(e.pattern())));
+        spec.set("actions", actions(events));
         long width = tracks.values().stream().mapToLong(History.Track::width).max().orElse(1);
         long count = tracks.values().stream().mapToLong(History.Track::count).max().orElse(0);
         String caption = "Highest residual in each bucket of " + Numbers.count(width) + " iteration"
                 + (width == 1 ? "" : "s") + " (" + Numbers.count(count) + " records), log axis; dashed grey lines"
                 + " at 1e-3, 1e-5 and 1e-6. Shaded spans: a condition open, from the marker where it opened"
                 + " to the ring where it resolved; numbers are the event numbers of the table below."
-                + " \u2715 at the top: a non-finite value in that bucket.";
+                + " \u2715 at the top: a non-finite value in that bucket."
+                + (spec.path("actions").isEmpty() ? "" : " Solid purple line: a stop of the job (requested,"
+                        + " carried out, or only proposed).");
         return new Chart(id, spec, legend, caption);
     }
 
@@ -351,6 +354,30 @@ final class Charts {
             }
             o.put("sev", s.open().severity());
             o.put("pat", s.open().pattern());
+        }
+        return out;
+    }
+
+    /** Stops of the job, one mark per iteration (the last state there): {@code x}, {@code label}, {@code n}. */
+    static ArrayNode actions(List<Event> events) {
+        Map<Long, Event> byIter = new java.util.TreeMap<>();
+        for (Event e : events) {
+            if (e.is("action") && List.of("would-stop", "requested", "signalled", "done").contains(e.state())) {
+                byIter.put(e.iter(), e);
+            }
+        }
+        ArrayNode out = JSON.createArrayNode();
+        int kept = 0;
+        for (Event e : byIter.values()) {
+            if (++kept > MAX_SPANS) {
+                break;
+            }
+            String label = switch (e.state()) {
+                case "would-stop" -> "would stop";
+                case "requested" -> "stop requested";
+                default -> "stopped";
+            };
+            out.addObject().put("x", e.iter()).put("n", e.seq()).put("label", label);
         }
         return out;
     }

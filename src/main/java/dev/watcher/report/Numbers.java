@@ -62,6 +62,11 @@ final class Numbers {
                 .replace("e-0", "e-");
     }
 
+    /** Core-hours: one decimal, as the action events give them. */
+    static String hours(double v) {
+        return String.format(Locale.ROOT, "%.1f", v);
+    }
+
     /** A whole number with thin grouping: 1 000 000. */
     static String count(long n) {
         return String.format(Locale.ROOT, "%,d", n).replace(',', '\u202f');

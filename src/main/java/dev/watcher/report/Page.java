@@ -166,10 +166,10 @@ final class Page {
     private static String coreHoursShort(RunData r) {
         double v = coreHours(r, false);
         if (Double.isFinite(v)) {
-            return Numbers.show(v);
+            return Numbers.hours(v);
         }
         double w = coreHours(r, true);
-        return Double.isFinite(w) ? "(would have: " + Numbers.show(w) + ")" : "\u2013";
+        return Double.isFinite(w) ? "(would have: " + Numbers.hours(w) + ")" : "\u2013";
     }
 
     private static String badge(Verdict v) {
@@ -394,7 +394,7 @@ final class Page {
         double would = coreHours(r, true);
         out.append("<p>");
         if (Double.isFinite(saved)) {
-            out.append("Core-hours saved by stopping the job: <strong>").append(Html.text(Numbers.show(saved)))
+            out.append("Core-hours saved by stopping the job: <strong>").append(Html.text(Numbers.hours(saved)))
                     .append("</strong>");
             String note = null;
             for (Event e : acts) {
@@ -408,7 +408,7 @@ final class Page {
             out.append(". ");
         } else if (Double.isFinite(would)) {
             out.append("A stop was only proposed (stopping was not allowed); it would have saved up to <strong>")
-                    .append(Html.text(Numbers.show(would))).append("</strong> core-hours. ");
+                    .append(Html.text(Numbers.hours(would))).append("</strong> core-hours. ");
         } else {
             out.append("No core-hours figure was recorded (the job's size or time limit was not known). ");
         }

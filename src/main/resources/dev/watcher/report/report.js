@@ -1,7 +1,7 @@
 /* watcher morning review: draws the plots from the data block, then checks itself. */
 (function () {
   "use strict";
-  var check = { charts: 0, failed: 0, canvases: 0, nonBlank: 0, seriesDrawn: 0, markers: 0, bands: 0,
+  var check = { charts: 0, failed: 0, canvases: 0, nonBlank: 0, seriesDrawn: 0, markers: 0, actions: 0, bands: 0,
     predicted: 0, levels: 0, nonFinite: 0, errors: [] };
   window.addEventListener("error", function (e) { check.errors.push(String(e.message || e)); });
   var consoleError = console.error;
@@ -100,6 +100,16 @@
         ctx.fillText("#" + s.n, x0 + 8 * px, top + 2 * px);
         lastLabel = x0;
       }
+    });
+    (c.actions || []).forEach(function (a) {
+      var x = X(a.x);
+      ctx.strokeStyle = "#7a3d9a"; ctx.lineWidth = 2 * px;
+      ctx.beginPath(); ctx.moveTo(x, top); ctx.lineTo(x, bottom); ctx.stroke();
+      ctx.fillStyle = "#7a3d9a"; ctx.fillRect(x - 5 * px, bottom - 10 * px, 10 * px, 10 * px);
+      ctx.textAlign = "right"; ctx.textBaseline = "bottom"; ctx.font = "bold " + (10 * px) + "px sans-serif";
+      ctx.fillText("\u25a0 " + a.label + " #" + a.n, x - 7 * px, bottom - 2 * px);
+      ctx.font = (10 * px) + "px sans-serif";
+      check.actions++;
     });
     (c.series || []).forEach(function (s) {
       (s.nf || []).forEach(function (xv) {

@@ -20,11 +20,12 @@ import java.util.concurrent.TimeUnit;
  *
  * <pre>
  * java -cp watcher.jar dev.watcher.demo.DemoSolverMain --scenario NAME --layout jsonl|pass-line|sweep-block|table
- *      --out FILE [--pace-ms N] [--iterations N]
+ *      --out FILE [--pace-ms N | --seconds S] [--iterations N]
  * </pre>
  *
  * <p>{@code --pace-ms} sleeps between iterations so a watcher sees the file grow (the full-speed run takes
- * about a second). The process stops early, after finishing the line it is writing, on SIGTERM (a shutdown
+ * about a second); {@code --seconds S} picks the pace that spreads the run's iterations over about S seconds
+ * (the live demo uses 20-90 s). {@code --iterations} overrides the scenario's length. The process stops early, after finishing the line it is writing, on SIGTERM (a shutdown
  * hook) or when a file named {@value #HALT_FILE} appears in the folder of the output file; in the second case
  * it writes a closing note and exits 0. Exit codes: 0 finished or halted, 2 bad usage, 3 I/O failure, 4 the
  * numerics blew up (non-finite residuals; the log ends with them).
@@ -79,13 +80,18 @@ public final class DemoSolverMain {
             opts.remove("pace-ms");
             iterations = Integer.parseInt(opts.getOrDefault("iterations", Integer.toString(scenario.iterations())));
             opts.remove("iterations");
+            if (opts.containsKey("seconds")) {
+                // spread the run over about this many seconds of wall time
+                double seconds = Double.parseDouble(opts.remove("seconds"));
+                pace = Math.max(0, Math.round(seconds * 1000.0 / Math.max(1, iterations)));
+            }
             if (!opts.isEmpty()) {
                 throw new IllegalArgumentException("unknown option --" + opts.keySet().iterator().next());
             }
             if (pace < 0 || iterations < 0) {
                 throw new IllegalArgumentException("--pace-ms and --iterations must not be negative");
             }
-        } catch (IllegalArgumentException e) {
+        } catch (IllegalArgumentException e) { // NumberFormatException included
             err.println("demo solver: " + e.getMessage() + "\n" + usage());
             return 2;
         }
@@ -99,7 +105,7 @@ public final class DemoSolverMain {
 
     private static String usage() {
         return "usage: DemoSolverMain --scenario NAME --layout jsonl|pass-line|sweep-block|table --out FILE"
-                + " [--pace-ms N] [--iterations N]\n  scenarios: " + String.join(", ", Scenario.ids())
+                + " [--pace-ms N | --seconds S] [--iterations N]\n  scenarios: " + String.join(", ", Scenario.ids())
                 + "\n  stop: SIGTERM, or create " + HALT_FILE + " beside the log";
     }
 
@@ -151,17 +157,20 @@ public final class DemoSolverMain {
                 boolean blewUp = false;
                 while (run.hasNext()) {
                     if (terminating) {
-                        log.note("terminate signal, stopping after pass " + lastIter(run));
+                        log.note("terminate signal, stopping after pass " + last);
                         break;
                     }
                     if (Files.exists(haltFile)) {
-                        log.note(HALT_FILE + " found, stopping after pass " + lastIter(run));
+                        log.note(HALT_FILE + " found, stopping after pass " + last);
                         break;
                     }
                     ScenarioRun.Step step = run.next();
                     if (step.restartedFrom() >= 0) {
                         log.note("job requeued; resuming");
                         log.restart(step.restartedFrom());
+                    }
+                    if (step.note() != null) {
+                        log.note(step.note());
                     }
                     log.write(step.record());
                     last = step.record().iter();
@@ -190,10 +199,6 @@ public final class DemoSolverMain {
         }
 
         private long last;
-
-        private long lastIter(ScenarioRun run) {
-            return last;
-        }
 
         private static boolean finite(double[] values) {
             for (double v : values) {

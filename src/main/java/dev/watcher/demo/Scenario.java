@@ -66,12 +66,23 @@ public enum Scenario {
             1600, "single-equation-blowup"),
 
     /**
-     * Re 2000, first-order upwind, low relaxation 0.4 / 0.15, energy at Prandtl 7: a long run that converges
-     * slowly, with a shoulder where the rate drops, and a slowly settling energy equation.
+     * Re 2000, first-order upwind, cautious relaxation 0.3 / 0.1 raised to 0.6 / 0.25 after iteration 900 (a
+     * note in the log), energy at Prandtl 1: a long run with a start-up plateau of mom-x (iterations 40-120), a
+     * bump of mom-y and of temp, slow convergence, a faster slope after the change, the 1e-5 target near
+     * iteration 1450 and a flat round-off floor after that. A false-alarm case: nothing but settling, levels
+     * and finally {@code converged} should be raised.
      */
     SLOW_PLATEAUS("slow-plateaus", "Cooling-water intake basin, long overnight run",
-            new SolverSettings(32, 2000, 0.4, 0.15, 0.8, ConvectionScheme.UPWIND, true, 7.0, 0, 0, 0),
-            3000, "converged"),
+            new SolverSettings(32, 2000, 0.3, 0.1, 0.9, ConvectionScheme.UPWIND, true, 1.0, 0, 0, 0),
+            1800, "converged", new RelaxationChange(900, 0.6, 0.25)),
+
+    /**
+     * Relaxation 0.9 / 0.9 on the steady case: the pressure-velocity coupling runs away at once and the
+     * residuals are non-finite within about ten iterations (a quick case for the blow-up path).
+     */
+    RUNAWAY("runaway", "Header plenum with relaxation left at the values of a transient set-up",
+            new SolverSettings(32, 100, 0.9, 0.9, 0.9, ConvectionScheme.CENTRAL, false, 0.71, 0, 0, 0),
+            100, "non-finite"),
 
     /**
      * {@link #CONVERGING} killed at iteration 300 and restarted from its snapshot of iteration 200: the
@@ -91,13 +102,32 @@ public enum Scenario {
     private final SolverSettings settings;
     private final int iterations;
     private final String expectedPattern;
+    private final RelaxationChange change;
 
     Scenario(String id, String title, SolverSettings settings, int iterations, String expectedPattern) {
+        this(id, title, settings, iterations, expectedPattern, null);
+    }
+
+    Scenario(String id, String title, SolverSettings settings, int iterations, String expectedPattern,
+            RelaxationChange change) {
         this.id = id;
         this.title = title;
         this.settings = settings;
         this.iterations = iterations;
         this.expectedPattern = expectedPattern;
+        this.change = change;
+    }
+
+    /**
+     * A change of the momentum and pressure relaxation factors that the run makes (and its log declares with
+     * a note) after iteration {@code after}, as an engineer does who starts cautiously and then speeds up.
+     */
+    public record RelaxationChange(long after, double momentum, double pressure) {
+    }
+
+    /** The run's scheduled relaxation change, or null. */
+    public RelaxationChange relaxationChange() {
+        return change;
     }
 
     /** The name scripts and the command line use, e.g. {@code hot-relaxation}. */

@@ -22,7 +22,7 @@ import java.util.List;
 final class ScenarioRun {
 
     /** One produced record; {@code restartedFrom} is the snapshot iteration when a restart precedes it, else -1. */
-    record Step(IterationRecord record, long restartedFrom) {
+    record Step(IterationRecord record, long restartedFrom, String note) {
     }
 
     private static final int SNAPSHOT_EVERY = 100;
@@ -83,6 +83,14 @@ final class ScenarioRun {
             segment = 1;
             restartedFrom = solver.iteration();
         }
+        String note = null;
+        Scenario.RelaxationChange change = scenario.relaxationChange();
+        if (change != null && solver.iteration() == change.after()) {
+            SolverSettings before = solver.settings();
+            solver.reconfigure(before.withRelaxation(change.momentum(), change.pressure()));
+            note = String.format(java.util.Locale.ROOT, "relaxation changed: mom %.2f -> %.2f, p %.2f -> %.2f",
+                    before.relaxMomentum(), change.momentum(), before.relaxPressure(), change.pressure());
+        }
         double[] res = solver.iterate();
         double[] mon = solver.monitors();
         if (scenario == Scenario.RESTART && segment == 0 && solver.iteration() % SNAPSHOT_EVERY == 0
@@ -107,7 +115,7 @@ final class ScenarioRun {
             r = new IterationRecord(solver.iteration(), IterationRecord.NONE, Double.NaN, IterationRecord.NONE,
                     residuals, monitors, segment, 0);
         }
-        return new Step(r, restartedFrom);
+        return new Step(r, restartedFrom, note);
     }
 
     private static byte[] save(CavitySolver s) {

@@ -122,6 +122,32 @@ class ScenarioBehaviourTest {
     }
 
     @Test
+    void slowPlateausRunConvergesWithoutAnyLargeRiseAboveItsRunningMinimum() {
+        List<IterationRecord> h = Histories.run("slow-plateaus");
+        for (String eq : List.of("cont", "mom-x", "mom-y", "temp")) {
+            double[] s = series(h, eq);
+            double runningMin = s[4];
+            double worstRise = 0;
+            int firstAtTarget = -1;
+            for (int i = 5; i < s.length; i++) {
+                runningMin = Math.min(runningMin, s[i]);
+                if (runningMin > 1e-11) { // below that the residuals sit on the round-off floor and jitter
+                    worstRise = Math.max(worstRise, Math.log10(s[i] / runningMin));
+                }
+                if (firstAtTarget < 0 && s[i] < 1e-5) {
+                    firstAtTarget = i;
+                }
+            }
+            assertTrue(worstRise < 0.5, eq + " bumps stay below half a decade: " + worstRise);
+            assertTrue(firstAtTarget > 1000, eq + " converges slowly: at target from record " + firstAtTarget);
+            assertTrue(s[s.length - 1] < 1e-5, eq + " reaches the target in the end");
+        }
+        // a start-up plateau: mom-x stays within 10 % between iterations 50 and 110
+        double[] mx = series(h, "mom-x");
+        assertTrue(Math.abs(mx[109] / mx[49] - 1) < 0.1, "plateau " + mx[49] + " .. " + mx[109]);
+    }
+
+    @Test
     void restartContinuesFromTheSnapshotInANewSegmentWithTheSameState() {
         List<IterationRecord> h = Histories.run("restart", 400);
         IterationRecord cut = h.get(Scenario.RESTART_KILLED_AT - 1);

@@ -40,7 +40,7 @@ final class Charts {
     static Chart residuals(String id, History h, List<Event> events) {
         Map<String, History.Track> tracks = h.residuals();
         ObjectNode spec = base(id, "iteration", "residual", true);
-        List<Line> legend = lines(spec, tracks, true, "");
+        List<Line> legend = lines(spec, tracks);
         ArrayNode levels = spec.putArray("levels");
         for (double l : LEVELS) {
             levels.add(l);
@@ -62,17 +62,15 @@ final class Charts {
     /** A monitor's plot: its last value per bucket with the bucket's range, the settled band, the forecast. */
     static Chart monitor(String id, String name, History.Track t, List<Event> events, double predicted) {
         ObjectNode spec = base(id, "iteration", name, false);
-        Map<String, History.Track> one = new java.util.LinkedHashMap<>();
-        one.put(name, t);
         List<Line> legend = new ArrayList<>();
         ArrayNode x = spec.putArray("x");
         for (int i = 0; i < t.size(); i++) {
             x.add(t.mid(i));
         }
         ArrayNode series = spec.putArray("series");
-        series.add(seriesNode("highest in bucket", t, 'M', "#9ab7cf", new int[0], 1, false));
-        series.add(seriesNode("lowest in bucket", t, 'm', "#9ab7cf", new int[0], 1, false));
-        series.add(seriesNode(name, t, 'l', Palette.colour(0), new int[0], 2, false));
+        series.add(seriesNode("highest in bucket", t, 'M', "#9ab7cf", new int[0], 1));
+        series.add(seriesNode("lowest in bucket", t, 'm', "#9ab7cf", new int[0], 1));
+        series.add(seriesNode(name, t, 'l', Palette.colour(0), new int[0], 2));
         ArrayNode bands = spec.putArray("bands");
         bands.addObject().put("upper", 1).put("lower", 2).put("fill", "rgba(86,180,233,0.18)");
         legend.add(new Line(name + " (last value of each bucket)", Palette.colour(0), new int[0], 2));
@@ -105,7 +103,7 @@ final class Charts {
         spec.set("spans", spans(events, e -> name.equals(e.monitor())));
         String caption = name + ": last value of each bucket of " + Numbers.count(t.width()) + " iteration"
                 + (t.width() == 1 ? "" : "s") + ", the bucket's range shaded around it."
-                + (bandSpans.isEmpty() ? " Never settled." : " Hatched: the settled band" + (bandText.isEmpty()
+                + (bandSpans.isEmpty() ? " No settled or periodic band in the timeline." : " Hatched: the settled band" + (bandText.isEmpty()
                         ? "" : " (" + bandText + ")") + ".")
                 + (Double.isFinite(predicted) ? " Dashed line: predicted final value " + Numbers.show(predicted)
                         + "." : " No predicted final value.");
@@ -215,7 +213,7 @@ final class Charts {
     }
 
     /** Series of a group on the union of their x values; highest value per bucket; one style per name. */
-    private static List<Line> lines(ObjectNode spec, Map<String, History.Track> tracks, boolean log, String suffix) {
+    private static List<Line> lines(ObjectNode spec, Map<String, History.Track> tracks) {
         TreeSet<Long> xs = new TreeSet<>();
         tracks.values().forEach(t -> {
             for (int i = 0; i < t.size(); i++) {
@@ -233,8 +231,8 @@ final class Charts {
         for (Map.Entry<String, History.Track> e : tracks.entrySet()) {
             String colour = Palette.colour(i);
             int[] dash = Palette.dash(i);
-            series.add(aligned(e.getKey() + suffix, e.getValue(), xa, colour, dash, 1.6));
-            legend.add(new Line(e.getKey() + suffix, colour, dash, 1.6));
+            series.add(aligned(e.getKey(), e.getValue(), xa, colour, dash, 1.6));
+            legend.add(new Line(e.getKey(), colour, dash, 1.6));
             i++;
         }
         return legend;
@@ -268,8 +266,9 @@ final class Charts {
         return s;
     }
 
+    /** One column of a monitor's buckets: {@code M} max, {@code m} min, {@code l} last; non-finite as gaps. */
     private static ObjectNode seriesNode(String label, History.Track t, char which, String colour, int[] dash,
-            double width, boolean log) {
+            double width) {
         ObjectNode s = style(label, colour, dash, width);
         ArrayNode y = s.putArray("y");
         ArrayNode nf = s.putArray("nf");
@@ -280,8 +279,6 @@ final class Charts {
                 if (which == 'l') {
                     nf.add(t.mid(i));
                 }
-            } else if (log && v <= 0) {
-                y.addNull();
             } else {
                 y.add(Numbers.round4(v));
             }

@@ -110,7 +110,8 @@ final class Page {
                     .append("</a></td><td>").append(badge(v)).append(' ').append(Html.text(v.text()))
                     .append("</td><td class=\"num\">").append(Numbers.count(lastIter(r))).append("</td>")
                     .append("<td class=\"num\">").append(open).append("</td><td class=\"num\">")
-                    .append(Numbers.count(r.events().size())).append("</td><td>")
+                    .append(Numbers.count(r.events().size() + r.skipped().values().stream()
+                            .mapToLong(Long::longValue).sum())).append("</td><td>")
                     .append(Html.text(actionsLine(r))).append("</td><td class=\"num\">")
                     .append(Html.text(coreHoursShort(r))).append("</td></tr>\n");
         }
@@ -418,14 +419,13 @@ final class Page {
     private void events(RunData r) {
         List<Event> all = r.events();
         List<Event> shown = all;
-        Map<String, Integer> left = new TreeMap<>();
+        Map<String, Long> left = new TreeMap<>(r.skipped());
         if (all.size() > MAX_ROWS) {
             List<Event> ranked = new ArrayList<>(all);
             ranked.sort(Comparator.comparingInt((Event e) -> -importance(e)).thenComparingLong(Event::seq));
             shown = new ArrayList<>(ranked.subList(0, MAX_ROWS));
             for (Event e : ranked.subList(MAX_ROWS, ranked.size())) {
-                left.merge(e.type() + " " + e.state() + (e.pattern() != null && e.is("detection") ? " ("
-                        + e.pattern() + ")" : ""), 1, Integer::sum);
+                left.merge(Timeline.kind(e), 1L, Long::sum);
             }
             shown.sort(Comparator.comparingLong(Event::seq));
         }
@@ -435,11 +435,11 @@ final class Page {
             return;
         }
         if (!left.isEmpty()) {
-            int n = all.size() - shown.size();
+            long n = left.values().stream().mapToLong(Long::longValue).sum();
             List<String> parts = new ArrayList<>();
             left.forEach((k, v) -> parts.add(v + " " + k));
-            out.append("<p class=\"note\">").append(Numbers.count(all.size())).append(" events; the ")
-                    .append(Numbers.count(MAX_ROWS)).append(" most important are listed, ")
+            out.append("<p class=\"note\">").append(Numbers.count(n + shown.size())).append(" events; the ")
+                    .append(Numbers.count(shown.size())).append(" most important are listed, ")
                     .append(Numbers.count(n)).append(" left out: ").append(Html.text(String.join(", ", parts)))
                     .append(". The timeline file holds them all.</p>\n");
         }

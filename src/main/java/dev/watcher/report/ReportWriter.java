@@ -92,7 +92,7 @@ public final class ReportWriter {
         for (String name : names) {
             History h = histories.get(name);
             JsonNode state = runState(dir.resolve("runs").resolve(safe(name) + ".json"));
-            runs.add(new RunData(name, t.runs().getOrDefault(name, List.of()), h, state));
+            runs.add(new RunData(name, t.runs().getOrDefault(name, List.of()), h, state, t.skipped().get(name)));
         }
         Page page = new Page(zone);
         return page.render(input.toString(), runs, t.unreadable(), !histories.isEmpty(), resource(

@@ -18,6 +18,14 @@
     return Math.abs(v - Math.pow(10, e)) / v < 1e-6 ? "1e" + e : v.toExponential(0);
   }
 
+  function count(v) {
+    if (v == null) { return ""; }
+    var a = Math.abs(v);
+    if (a >= 1e6) { return +(v / 1e6).toFixed(2) + "M"; }
+    if (a >= 1e4) { return +(v / 1e3).toFixed(1) + "k"; }
+    return String(v);
+  }
+
   function decades(u, splits) {
     return splits.map(function (v) {
       if (v == null || v <= 0) { return null; }
@@ -158,7 +166,8 @@
       scales: { x: { time: false }, y: c.log ? { distr: 3, log: 10 } : { range: range(c) } },
       series: series,
       bands: bands,
-      axes: [{ label: c.xLabel, stroke: "#222", grid: { stroke: "#e6e6e6", width: 1 }, ticks: { stroke: "#bbb" } },
+      axes: [{ label: c.xLabel, stroke: "#222", space: 70, grid: { stroke: "#e6e6e6", width: 1 },
+        ticks: { stroke: "#bbb" }, values: function (u, vals) { return vals.map(count); } },
         yAxis],
       legend: { show: false },
       cursor: { drag: { x: true, y: false } },

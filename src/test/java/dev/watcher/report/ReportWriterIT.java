@@ -169,4 +169,38 @@ class ReportWriterIT {
         assertTrue(html.contains("702 detection info (residual-level)"), "note of what was left out");
         assertTrue(html.contains("still open: stalled-oscillation (energy)"), "verdict");
     }
+
+    @Test
+    void routineEventsBeyondTheKeptNumberAreCountedButNotHeld() throws Exception {
+        Path state = tmp.resolve("state");
+        Files.createDirectories(state);
+        Instant at = Instant.parse("2026-12-01T00:00:00Z");
+        int levels = Timeline.ROUTINE_KEPT + 1000;
+        StringBuilder lines = new StringBuilder();
+        long seq = 0;
+        lines.append(line(++seq, at, PendingEvent.run("long", 0, "started", "watch")));
+        for (int i = 1; i <= levels; i++) {
+            lines.append(line(++seq, at, PendingEvent.detection("long", new Detection("residual-level",
+                    DetectionState.INFO, Severity.INFO, i, List.of("energy"), null, "energy crossed 1e-4", "",
+                    Map.of()))));
+        }
+        lines.append(line(++seq, at, PendingEvent.detection("long", new Detection("stalled-oscillation",
+                DetectionState.OPEN, Severity.WARNING, levels, List.of("energy"), null, "energy bounces", "", Map.of()))));
+        lines.append(line(++seq, at, PendingEvent.run("long", levels, "ended", "end of the log")));
+        Files.writeString(state.resolve("timeline.jsonl"), lines);
+
+        Timeline t = Timeline.read(state.resolve("timeline.jsonl"));
+        assertEquals(Timeline.ROUTINE_KEPT + 3, t.runs().get("long").size(), "events held");
+        assertEquals(Map.of("detection info (residual-level)", 1000L), t.skipped().get("long"), "counted only");
+
+        String html = Files.readString(ReportWriter.write(state, tmp.resolve("r.html"), ZoneOffset.UTC));
+        // every event is accounted for: 1 + 6000 + 1 + 1 = 6003, of which 1500 listed
+        assertTrue(html.contains("6\u202f003 events; the 1\u202f500 most important are listed, 4\u202f503 left out:"
+                + " 4503 detection info (residual-level)"), "note of what was left out");
+        assertTrue(html.contains("energy bounces"));
+    }
+
+    private static String line(long seq, Instant at, PendingEvent e) {
+        return new String(Journal.encode(dev.watcher.model.TimelineEvent.of(seq, at, e)), StandardCharsets.UTF_8);
+    }
 }

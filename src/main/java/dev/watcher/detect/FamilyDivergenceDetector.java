@@ -39,7 +39,9 @@ import java.util.function.Consumer;
  *
  * <p>Parameters ({@code family-divergence.}): {@code window} 60 records, {@code min_rise} 0.5 decades,
  * {@code min_slope} 0.005 decades/iteration, {@code alpha} 0.01, {@code floor} 1e-12, {@code warmup} 50
- * records per segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades,
+ * records per segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
+ * added to {@code min_rise}), {@code baseline_window} 200 records (the minimum a rise is measured from is
+ * the lowest smoothed level over this many records),
  * {@code eval_every} 3 records, {@code min_family_size} 2. Cost: O(1) per value; the tests run only while a
  * member rises persistently.
  */
@@ -56,6 +58,8 @@ final class FamilyDivergenceDetector implements Detector {
     private final double cusumK;
     private final double cusumH;
     private final double minScale;
+    private final double riseNoise;
+    private final int baselineWindow;
     private final int evalEvery;
     private final int minFamilySize;
     private final Map<String, List<String>> declared;
@@ -78,10 +82,12 @@ final class FamilyDivergenceDetector implements Detector {
         cusumK = s.number(P + "cusum_k", 0.5);
         cusumH = s.number(P + "cusum_h", 5);
         minScale = s.number(P + "min_scale", 0.005);
+        riseNoise = s.number(P + "rise_noise", 4);
+        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 200));
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();
-        eqs = new PerName<>(n -> new RiseTracker(n, window, warmup, cusumK, cusumH, minScale));
+        eqs = new PerName<>(n -> new RiseTracker(n, window, baselineWindow, warmup, cusumK, cusumH, minScale, riseNoise));
         xs = new double[window];
         ys = new double[window];
     }
@@ -149,7 +155,7 @@ final class FamilyDivergenceDetector implements Detector {
             for (int i = 0; i < p.length; i++) {
                 p[i] = 1;
                 RiseTracker t = eqs.get(members.get(i));
-                if (t == null || !t.warm() || t.rise() < minRise / 2 || t.last < floor) {
+                if (t == null || !t.warm() || t.rise() < t.required(minRise) / 2 || t.last < floor) {
                     continue;
                 }
                 RiseTracker.Late late = t.late(xs, ys);
@@ -198,12 +204,12 @@ final class FamilyDivergenceDetector implements Detector {
         for (int k = 0; k < rising.size(); k++) {
             RiseTracker t = eqs.get(rising.get(k));
             int i = idx.get(k);
-            from[k] = t.minSmooth;
+            from[k] = t.minSmooth();
             maxSlope = Math.max(maxSlope, slope[i]);
             minSlopeSeen = Math.min(minSlopeSeen, slope[i]);
-            maxRise = Math.max(maxRise, t.last - t.minRaw);
+            maxRise = Math.max(maxRise, t.rise());
             maxP = Math.max(maxP, p[i]);
-            minFall = Math.min(minFall, t.fall());
+            minFall = Math.min(minFall, t.fall(ys));
         }
         RiseTracker first = eqs.get(rising.get(0));
         int n = first.size();

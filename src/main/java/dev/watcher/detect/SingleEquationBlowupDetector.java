@@ -37,7 +37,9 @@ import java.util.function.Consumer;
  *
  * <p>Parameters ({@code single-equation-blowup.}): {@code window} 60 records, {@code min_slope} 0.005
  * decades/iteration, {@code min_rise} 0.5 decades, {@code alpha} 0.01, {@code warmup} 50 records per
- * segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code eval_every} 3
+ * segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
+ * added to {@code min_rise}), {@code baseline_window} 200 records (the minimum a rise is measured from is
+ * the lowest smoothed level over this many records), {@code eval_every} 3
  * records, {@code others_rising_fraction} 0.5. Cost: O(1) per value; O(window^2 log window) per evaluation,
  * which happens only while a residual rises persistently.
  */
@@ -53,6 +55,8 @@ final class SingleEquationBlowupDetector implements Detector {
     private final double cusumK;
     private final double cusumH;
     private final double minScale;
+    private final double riseNoise;
+    private final int baselineWindow;
     private final int evalEvery;
     private final double othersRisingFraction;
     private final PerName<Eq> eqs;
@@ -68,6 +72,8 @@ final class SingleEquationBlowupDetector implements Detector {
         cusumK = s.number(P + "cusum_k", 0.5);
         cusumH = s.number(P + "cusum_h", 5);
         minScale = s.number(P + "min_scale", 0.005);
+        riseNoise = s.number(P + "rise_noise", 4);
+        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 200));
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         othersRisingFraction = s.number(P + "others_rising_fraction", 0.5);
         eqs = new PerName<>(Eq::new);
@@ -82,7 +88,7 @@ final class SingleEquationBlowupDetector implements Detector {
         double openFrom;
 
         Eq(String name) {
-            t = new RiseTracker(name, window, warmup, cusumK, cusumH, minScale);
+            t = new RiseTracker(name, window, baselineWindow, warmup, cusumK, cusumH, minScale, riseNoise);
         }
     }
 
@@ -112,8 +118,8 @@ final class SingleEquationBlowupDetector implements Detector {
         }
     }
 
-    private RiseTracker.Late risingLate(RiseTracker t, double rise) {
-        if (!t.warm() || t.rise() < rise) {
+    private RiseTracker.Late risingLate(RiseTracker t, double share) {
+        if (!t.warm() || t.rise() < share * t.required(minRise)) {
             return null;
         }
         RiseTracker.Late l = t.late(xs, ys);
@@ -124,7 +130,7 @@ final class SingleEquationBlowupDetector implements Detector {
     }
 
     private void evaluate(Eq e, List<Eq> slots, IterationRecord r, Consumer<Detection> out) {
-        RiseTracker.Late late = risingLate(e.t, minRise);
+        RiseTracker.Late late = risingLate(e.t, 1);
         if (late == null) {
             return;
         }
@@ -140,7 +146,7 @@ final class SingleEquationBlowupDetector implements Detector {
             others++;
             slopes.add(o.t.window(xs, ys).slope());
             boolean mate = e.t.family != null && e.t.family.equals(o.t.family);
-            if (risingLate(o.t, minRise / 2) != null) {
+            if (risingLate(o.t, 0.5) != null) {
                 othersRising++;
                 familyMateRising |= mate;
             } else if (mate && o.t.warm() && o.t.cusumSignalled()) {
@@ -157,16 +163,16 @@ final class SingleEquationBlowupDetector implements Detector {
         double outlierZ = RobustScale.of(sl, sl.length).modifiedZ(late.fit().slope());
         e.open = true;
         e.segmentSinceOpen = false;
-        e.openFrom = e.t.minSmooth;
+        e.openFrom = e.t.minSmooth();
         TheilSen f = late.fit();
-        double rise = e.t.last - e.t.minRaw;
+        double rise = e.t.rise();
         Map<String, Object> ev = new LinkedHashMap<>();
         ev.put("slope_decades_per_iter", Log10.round(f.slope()));
         ev.put("slope_low", Log10.round(f.low()));
         ev.put("slope_high", Log10.round(f.high()));
         ev.put("rise_decades", Log10.round(rise));
         ev.put("residual", Log10.round(Math.pow(10, e.t.last)));
-        ev.put("running_min", Log10.round(Math.pow(10, e.t.minRaw)));
+        ev.put("baseline", Log10.round(Math.pow(10, e.t.minSmooth())));
         ev.put("p_trend", Log10.round(late.trend().pIncreasing()));
         ev.put("rising_points", f.n());
         ev.put("cusum", Log10.round(e.t.cusum()));

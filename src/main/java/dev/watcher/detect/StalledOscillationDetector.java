@@ -36,11 +36,12 @@ import java.util.function.Consumer;
  * </ol>
  * The conditions must hold at {@code confirm} consecutive evaluations. Equations that stall at the same
  * evaluation form one condition (one event naming them). It resolves (hysteresis) when every one of its
- * equations has fallen {@code resolve_drop_decades} below the level it stalled at, or below the target.
+ * equations has fallen {@code resolve_drop_decades} below the level it stalled at, or below the target,
+ * judged on exponentially smoothed block means (weight 0.1, about 100 records), not on single values.
  * A cheap gate skips the statistics while the window's second half is clearly below its first half.
  *
  * <p>Parameters ({@code stalled-oscillation.}): {@code window} 400 records, {@code block} 10,
- * {@code eval_every} 100, {@code target} 1e-5, {@code trend_alpha} 0.05, {@code max_drift_decades} 0.3,
+ * {@code eval_every} 200, {@code target} 1e-5, {@code trend_alpha} 0.05, {@code max_drift_decades} 0.3,
  * {@code min_amplitude_decades} 0.05, {@code negligible_drift_decades} 0.05, {@code confirm} 2, {@code resolve_drop_decades} 0.5. Cost: O(1) per
  * value; per evaluation O(window log window + (window/block)^2).
  */
@@ -67,7 +68,7 @@ final class StalledOscillationDetector implements Detector {
     StalledOscillationDetector(DetectSettings s) {
         block = Math.max(1, s.integer(P + "block", 10));
         window = Math.max(4 * block, s.integer(P + "window", 400));
-        evalEvery = Math.max(1, s.integer(P + "eval_every", 100));
+        evalEvery = Math.max(1, s.integer(P + "eval_every", 200));
         target = Math.log10(s.number(P + "target", 1e-5));
         trendAlpha = s.number(P + "trend_alpha", 0.05);
         maxDrift = s.number(P + "max_drift_decades", 0.3);
@@ -90,6 +91,8 @@ final class StalledOscillationDetector implements Detector {
         double sum;
         int inBlock;
         long blockStart;
+        /** Exponentially smoothed block means (weight 0.1): the level that resolution is judged on. */
+        double level10 = Double.NaN;
         int streak;
         boolean stalled;
         // evidence of the latest evaluation
@@ -111,6 +114,7 @@ final class StalledOscillationDetector implements Detector {
             sum = 0;
             inBlock = 0;
             streak = 0;
+            level10 = Double.NaN;
         }
     }
 
@@ -147,7 +151,9 @@ final class StalledOscillationDetector implements Detector {
             }
             e.sum += y;
             if (++e.inBlock == block) {
-                e.means.add(e.sum / block);
+                double mean = e.sum / block;
+                e.means.add(mean);
+                e.level10 = Double.isNaN(e.level10) ? mean : e.level10 + 0.1 * (mean - e.level10);
                 e.mids.add(0.5 * (e.blockStart + r.iter()));
                 e.sum = 0;
                 e.inBlock = 0;
@@ -188,13 +194,10 @@ final class StalledOscillationDetector implements Detector {
         if ((first - second) / h > maxDrift) {
             return false;
         }
-        int n = e.logs.copyTo(raw);
-        RobustScale rs = RobustScale.of(raw, n);
-        e.level = rs.median();
-        e.amplitude = rs.spread();
-        if (e.level <= target) {
+        if (e.level10 <= target) {
             return false;
         }
+        e.level = e.level10;
         e.mids.copyTo(bx);
         TheilSen ts = TheilSen.fit(bx, by, m, 0.95);
         e.slope = ts.slope();
@@ -206,7 +209,14 @@ final class StalledOscillationDetector implements Detector {
         e.pTrend = mk.pTwoSided();
         e.inflation = mk.varianceInflation();
         // a significant but negligible drift (a plateau approached geometrically) does not block
-        return mk.pTwoSided() >= trendAlpha || Math.abs(ts.slope()) * span <= negligibleDrift;
+        if (mk.pTwoSided() < trendAlpha && Math.abs(ts.slope()) * span > negligibleDrift) {
+            return false;
+        }
+        int n = e.logs.copyTo(raw);
+        RobustScale rs = RobustScale.of(raw, n);
+        e.level = rs.median();
+        e.amplitude = rs.spread();
+        return e.level > target;
     }
 
     private void fire(List<Eq> members, IterationRecord r, Consumer<Detection> out) {
@@ -258,8 +268,8 @@ final class StalledOscillationDetector implements Detector {
             boolean all = true;
             for (int i = 0; i < g.members.size() && all; i++) {
                 Eq e = g.members.get(i);
-                double now = e.means.last();
-                all = e.means.size() > 0 && (now <= g.level[i] - resolveDrop || now <= target);
+                double now = e.level10;
+                all = !Double.isNaN(now) && (now <= g.level[i] - resolveDrop || now <= target);
             }
             if (all) {
                 open.remove(k);

@@ -1,30 +1,26 @@
 package dev.watcher.detect.stats;
 
-import java.util.Arrays;
-
 /** Mid-ranks (1-based, ties get the average of their ranks), as in rank-based statistics. */
 final class Ranks {
     private Ranks() {
     }
 
+    /** O(n^2) without allocation beyond the result: the windows here are small (tens of points). */
     static double[] of(double[] x, int n) {
-        Integer[] idx = new Integer[n];
-        for (int i = 0; i < n; i++) {
-            idx[i] = i;
-        }
-        Arrays.sort(idx, (a, b) -> Double.compare(x[a], x[b]));
         double[] r = new double[n];
-        int i = 0;
-        while (i < n) {
-            int j = i + 1;
-            while (j < n && x[idx[j]] == x[idx[i]]) {
-                j++;
+        for (int i = 0; i < n; i++) {
+            int below = 0;
+            int equal = 0;
+            double xi = x[i];
+            for (int j = 0; j < n; j++) {
+                double xj = x[j];
+                if (xj < xi) {
+                    below++;
+                } else if (xj == xi) {
+                    equal++;
+                }
             }
-            double rank = (i + 1 + j) / 2.0; // average of ranks i+1..j
-            for (int k = i; k < j; k++) {
-                r[idx[k]] = rank;
-            }
-            i = j;
+            r[i] = below + (equal + 1) / 2.0; // ranks below+1 .. below+equal averaged
         }
         return r;
     }

@@ -19,11 +19,12 @@ public final class RollingWindow {
     /** Appends a value, dropping the oldest when full. */
     public void add(double v) {
         if (size < ring.length) {
-            ring[(start + size) % ring.length] = v;
+            int at = start + size;
+            ring[at >= ring.length ? at - ring.length : at] = v;
             size++;
         } else {
             ring[start] = v;
-            start = (start + 1) % ring.length;
+            start = start + 1 == ring.length ? 0 : start + 1;
         }
     }
 
@@ -41,7 +42,8 @@ public final class RollingWindow {
 
     /** The i-th value, 0 = oldest. */
     public double get(int i) {
-        return ring[(start + i) % ring.length];
+        int at = start + i;
+        return ring[at >= ring.length ? at - ring.length : at];
     }
 
     /** The newest value; NaN when empty. */

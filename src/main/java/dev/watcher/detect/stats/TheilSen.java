@@ -11,7 +11,7 @@ import java.util.Arrays;
  * conventions (rounding half to even, the separate-medians intercept) follow scipy.stats.theilslopes, whose
  * results the tests reproduce.
  *
- * <p>Cost O(n^2 log n) for n points: call it every k records on a bounded window, never per record.
+ * <p>Cost O(n^2) expected for n points (the order statistics by selection, not by sorting): call it every k records on a bounded window, never per record.
  *
  * @param n         number of points
  * @param slope     the median pairwise slope
@@ -37,14 +37,16 @@ public record TheilSen(int n, double slope, double low, double high, double inte
         if (m == 0) {
             return new TheilSen(n, Double.NaN, Double.NaN, Double.NaN, Double.NaN, confidence);
         }
-        Arrays.sort(slopes, 0, m);
-        double slope = medianOfSorted(slopes, m);
         double var = (n * (n - 1.0) * (2 * n + 5) - tieTerm(x, n) - tieTerm(y, n)) / 18.0;
         double c = Normal.quantile(1 - (1 - confidence) / 2) * Math.sqrt(Math.max(var, 0));
         int upper = (int) Math.min(Math.rint((m + c) / 2), m - 1);
         int lower = (int) Math.max(Math.rint((m - c) / 2) - 1, 0);
+        // order statistics by selection, O(m) expected, instead of sorting the m = O(n^2) slopes
+        double lo = Select.kth(slopes, 0, m, lower);
+        double hi = Select.kth(slopes, 0, m, upper);
+        double slope = medianBetween(slopes, m, lower, upper);
         double intercept = median(y, n) - slope * median(x, n);
-        return new TheilSen(n, slope, slopes[lower], slopes[upper], intercept, confidence);
+        return new TheilSen(n, slope, lo, hi, intercept, confidence);
     }
 
     /** The fit of {@code y[0..n)} against the indices 0, 1, ..., n-1. */
@@ -56,7 +58,7 @@ public record TheilSen(int n, double slope, double low, double high, double inte
         return fit(x, y, n, confidence);
     }
 
-    /** Only the median slope of {@code y[0..n)} against its indices; 0 for fewer than two points. */
+    /** Only the median slope of {@code y[0..n)} against its indices; 0 for fewer than two points. O(n^2). */
     public static double slope(double[] y, int n) {
         if (n < 2) {
             return 0;
@@ -68,8 +70,21 @@ public record TheilSen(int n, double slope, double low, double high, double inte
                 slopes[m++] = (y[j] - y[i]) / (j - i);
             }
         }
-        Arrays.sort(slopes);
-        return medianOfSorted(slopes, m);
+        return medianBetween(slopes, m, 0, m - 1);
+    }
+
+    /** The median of a[0..m) by selection; reorders a. */
+    private static double medianBetween(double[] a, int m, int lowerIgnored, int upperIgnored) {
+        double hi = Select.kth(a, 0, m, m / 2);
+        if ((m & 1) == 1) {
+            return hi;
+        }
+        // after the selection a[0..m/2) holds the smaller half: its maximum has rank m/2 - 1
+        double lo = a[0];
+        for (int i = 1; i < m / 2; i++) {
+            lo = Math.max(lo, a[i]);
+        }
+        return 0.5 * (lo + hi);
     }
 
     /** True when the whole confidence interval lies inside [-delta, +delta]: an equivalence (TOST-like) test. */

@@ -245,4 +245,20 @@ class StatsCheckValuesTest {
         assertEquals(5, w.last(), 0);
         assertTrue(w.full());
     }
+
+    @Test
+    void selectionFindsTheSameOrderStatisticsAsSorting() {
+        java.util.SplittableRandom rnd = new java.util.SplittableRandom(7);
+        for (int m : new int[] {1, 2, 3, 10, 101, 1000}) {
+            double[] a = new double[m];
+            for (int i = 0; i < m; i++) {
+                a[i] = rnd.nextInt(20) * 0.5; // many ties
+            }
+            double[] sorted = a.clone();
+            java.util.Arrays.sort(sorted);
+            for (int k : new int[] {0, m / 3, m / 2, m - 1}) {
+                assertEquals(sorted[k], Select.kth(a.clone(), 0, m, k), 0, "m=" + m + " k=" + k);
+            }
+        }
+    }
 }

@@ -47,17 +47,21 @@ final class DemoCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         Logs.configure(verbose);
         List<Demo.Scenario> scenarios = List.of(
-                new Demo.Scenario("east-header", "converging", "pass-line", shipped("pass-line.yaml"), "converged"),
+                new Demo.Scenario("east-header", "converging", "pass-line", shipped("pass-line.yaml"), "converged",
+                        1300),
                 new Demo.Scenario("east-header-hot", "hot-relaxation", "jsonl", Formats.builtIn("jsonl"),
-                        "stalled-oscillation or family-divergence (and is stopped)"),
+                        "stalled-oscillation or family-divergence (and is stopped)", 0),
                 new Demo.Scenario("tunnel-fan", "big-step", "sweep-block", shipped("sweep-block.yaml"),
-                        "rising-peaks"));
+                        "rising-peaks", 0));
         System.out.println("demo: three cases of our own small cavity solver, watched live (details: " + out
                 + "/*/solver-console.txt)");
         Path state = Demo.run(out.toAbsolutePath(), scenarios, demoRules(), paceMs, http, keepOpen,
                 Duration.ofSeconds(limit), System.out, d -> Signals.onTermOrInt(() -> d.shutdown(
                         "demo stopped by a signal")));
         System.out.println("demo: timeline: " + state.resolve("timeline.jsonl"));
+        Path report = dev.watcher.report.ReportWriter.write(state, out.toAbsolutePath().resolve("report.html"),
+                java.time.ZoneId.systemDefault());
+        System.out.println("demo: report:   " + report);
         return 0;
     }
 

@@ -10,7 +10,7 @@ import picocli.CommandLine.Command;
 @Command(name = "watcher", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
         description = "Follows the growing logs of long CFD runs, judges convergence, alerts with remedies,"
                 + " stops diverging jobs when allowed, and leaves an event timeline and a report.",
-        subcommands = {DemoCommand.class, WatchCommand.class, ReplayCommand.class,
+        subcommands = {DemoCommand.class, WatchCommand.class, ReplayCommand.class, ReportCommand.class,
             CheckCommand.class, BenchCommand.class, CommandLine.HelpCommand.class})
 public final class Main implements Runnable {
 

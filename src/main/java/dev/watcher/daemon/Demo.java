@@ -22,8 +22,12 @@ import java.util.stream.Stream;
  */
 public final class Demo {
 
-    /** One demo scenario: the solver's scenario name, the layout it writes, the run name, what it should raise. */
-    public record Scenario(String run, String scenario, String layout, FormatSpec format, String expect) {
+    /**
+     * One demo scenario: the run name, the solver's scenario, the layout it writes, the format that reads it,
+     * what it should raise, and how many iterations the solver runs (0: the scenario's own count).
+     */
+    public record Scenario(String run, String scenario, String layout, FormatSpec format, String expect,
+            int iterations) {
     }
 
     private Demo() {
@@ -52,6 +56,9 @@ public final class Demo {
                 ProcessBuilder pb = new ProcessBuilder(javaBin, "-Xmx96m", "-XX:+UseSerialGC", "-XX:TieredStopAtLevel=1",
                         "-cp", cp, "dev.watcher.demo.DemoSolverMain", "--scenario", s.scenario(), "--layout",
                         s.layout(), "--out", log.toString(), "--pace-ms", Long.toString(paceMs));
+                if (s.iterations() > 0) {
+                    pb.command().addAll(List.of("--iterations", Integer.toString(s.iterations())));
+                }
                 pb.redirectErrorStream(true);
                 pb.redirectOutput(caseDir.resolve("solver-console.txt").toFile());
                 Process p = pb.start();

@@ -47,7 +47,7 @@ final class MonitorJudge {
      * @param tolerance      max(relative * |mean|, absolute), times the scale asked for
      * @param drift          Theil–Sen drift across the kept values (slope per batch times the batches)
      * @param predicted      predicted final value: the geometric limit when the approach is geometric, else the mean
-     * @param remainingError predicted final minus latest level (0 when no geometric approach is visible)
+     * @param remainingError predicted final minus the latest value (0 when no geometric approach is visible)
      * @param geometric      true when a geometric approach was seen and used
      */
     record Settling(boolean settled, String reason, int samples, int truncation, double mean, double halfWidth,
@@ -103,9 +103,9 @@ final class MonitorJudge {
             return notSettled("too few samples", n, 0);
         }
         Mser mser = Mser.of(x, n);
-        // a transient MSER cannot place (a smooth, noise-free approach) is judged on the last half: settled
-        // only if even that half stays within the tolerance
-        int cut = mser.reliable() ? mser.truncation() : n / 2;
+        // a transient MSER cannot place (a smooth, noise-free approach) is judged on the latest quarter of the
+        // window (at least min_samples values): settled only if that stays within the tolerance
+        int cut = mser.reliable() ? mser.truncation() : n - Math.min(n, Math.max(settle.minSamples(), n / 4));
         int kept = n - cut;
         int batches = Math.max(10, Math.min(30, Math.min(settle.batches(), kept / 5)));
         BatchMeans bm = BatchMeans.of(x, cut, kept, batches, settle.confidence());
@@ -123,11 +123,14 @@ final class MonitorJudge {
         double predicted = mean;
         double remaining = 0;
         if (geo != null) {
+            // the block means move by more than their noise: the scatter of first differences, which a smooth
+            // trend hardly touches (the batch-means half-width would be inflated by the trend itself)
+            double noise = diffScatter(x, cut, n) / Math.sqrt(block);
             double step = Math.abs(blockMean(x, n - 2 * block, block) - blockMean(x, n - 3 * block, block));
-            if (step > 3 * bm.halfWidth() && geo.valid() && geo.lambda() > 0) {
+            if (step > 4 * noise && geo.valid() && geo.lambda() > 0) {
                 geometric = true;
                 predicted = geo.limit();
-                remaining = geo.limit() - blockMean(x, n - block, block);
+                remaining = geo.limit() - x[n - 1];
             }
         }
         String reason = "settled";
@@ -152,6 +155,21 @@ final class MonitorJudge {
     private static Settling notSettled(String reason, int n, int cut) {
         return new Settling(false, reason, n, cut, Double.NaN, Double.NaN, Double.NaN, Double.NaN, Double.NaN,
                 Double.NaN, false);
+    }
+
+    /** Standard deviation of the first differences of x[from..n) over sqrt 2: the noise of one value. */
+    private static double diffScatter(double[] x, int from, int n) {
+        int m = n - from - 1;
+        if (m < 2) {
+            return 0;
+        }
+        double mean = (x[n - 1] - x[from]) / m;
+        double ss = 0;
+        for (int i = from + 1; i < n; i++) {
+            double d = x[i] - x[i - 1] - mean;
+            ss += d * d;
+        }
+        return Math.sqrt(ss / (m - 1) / 2);
     }
 
     private static double blockMean(double[] x, int from, int len) {

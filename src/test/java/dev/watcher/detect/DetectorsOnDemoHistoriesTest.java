@@ -67,15 +67,21 @@ class DetectorsOnDemoHistoriesTest {
     }
 
     @Test
-    void theLongSlowRunRaisesNoAlarmAndNoVerdictWhileEnergyIsAboveTarget() {
+    void theLongSlowRunRaisesOnlySettlingEventsAndConvergesNoEarlierThanItsResidualsReachTarget() {
         List<IterationRecord> h = Histories.run("slow-plateaus");
-        double temp = h.get(h.size() - 1).residuals().get("temp", Double.NaN);
-        assertTrue(temp > 1e-5, "fact of the run: temp ends at " + temp);
         Harness r = run(h);
         for (Detection d : r.detections) {
             assertTrue(HEALTHY.contains(d.pattern()), d.toString());
         }
-        assertTrue(r.firstOpen(Patterns.CONVERGED).isEmpty());
+        long naive = h.stream().filter(x -> {
+            for (double v : x.residuals().values()) {
+                if (!(v <= 1e-5)) {
+                    return false;
+                }
+            }
+            return true;
+        }).findFirst().map(IterationRecord::iter).orElse(Long.MAX_VALUE);
+        r.firstOpen(Patterns.CONVERGED).ifPresent(c -> assertTrue(c.iter() >= naive, c.iter() + " vs " + naive));
     }
 
     @Test

@@ -41,8 +41,17 @@ final class Page {
     /** The zone's name as the page gives it: its id and, at {@code when}, its offset from UTC. */
     String zoneName(Instant when) {
         String off = zone.getRules().getOffset(when).getId();
-        String id = zone.getId();
+        String id = zoneId();
+        if (id.equals("UTC")) {
+            return id;
+        }
         return id + " (UTC" + (off.equals("Z") ? "" : off) + ")";
+    }
+
+    /** The zone's id, with the UTC offset zone named {@code UTC} rather than {@code Z}. */
+    String zoneId() {
+        String id = zone.getId();
+        return id.equals("Z") || id.equals("UTC") || id.equals("Etc/UTC") ? "UTC" : id;
     }
 
     String render(String source, List<RunData> runs, long unreadable, boolean historyFound, String css,
@@ -55,10 +64,10 @@ final class Page {
                 .append("<style>").append(css).append("</style>\n</head>\n<body>\n");
         out.append("<header class=\"mast\"><h1>Morning review</h1>\n<p class=\"meta\">From <code>")
                 .append(Html.text(source)).append("</code>, written ").append(time.format(now)).append(' ')
-                .append(Html.text(zoneName(now))).append(". All times are in ").append(Html.text(zone.getId()))
-                .append(" (")
-                .append(Html.text(zone.getDisplayName(TextStyle.FULL, Locale.ENGLISH)))
-                .append("); the timeline file itself keeps UTC.</p>\n");
+                .append(Html.text(zoneName(now))).append(". All times are in ").append(Html.text(zoneId()))
+                .append(zoneId().equals("UTC") ? "" : " (" + Html.text(zone.getDisplayName(TextStyle.FULL,
+                        Locale.ENGLISH)) + ")")
+                .append("; the timeline file itself keeps UTC.</p>\n");
         if (!historyFound) {
             out.append("<p class=\"note\"><strong>Events only:</strong> no series history was found beside the"
                     + " timeline (<code>history/</code>), so this report has no plots.</p>\n");
@@ -444,7 +453,7 @@ final class Page {
                     .append(". The timeline file holds them all.</p>\n");
         }
         out.append("<table class=\"grid events\"><thead><tr><th class=\"num\">#</th><th>Time (")
-                .append(Html.text(zone.getId())).append(")</th><th class=\"num\">Iteration</th><th>Severity</th>")
+                .append(Html.text(zoneId())).append(")</th><th class=\"num\">Iteration</th><th>Severity</th>")
                 .append("<th>Event</th><th>What happened</th><th>Remedy</th></tr></thead><tbody>\n");
         for (Event e : shown) {
             row(e);

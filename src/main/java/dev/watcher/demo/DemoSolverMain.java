@@ -1,6 +1,10 @@
 package dev.watcher.demo;
 
+import java.io.BufferedInputStream;
+import java.io.BufferedOutputStream;
 import java.io.BufferedWriter;
+import java.io.DataInputStream;
+import java.io.DataOutputStream;
 import java.io.IOException;
 import java.io.OutputStreamWriter;
 import java.io.PrintStream;
@@ -25,7 +29,10 @@ import java.util.concurrent.TimeUnit;
  *
  * <p>{@code --pace-ms} sleeps between iterations so a watcher sees the file grow (the full-speed run takes
  * about a second); {@code --seconds S} picks the pace that spreads the run's iterations over about S seconds
- * (the live demo uses 20-90 s). {@code --iterations} overrides the scenario's length. The process stops early, after finishing the line it is writing, on SIGTERM (a shutdown
+ * (the live demo uses 20-90 s). {@code --iterations} overrides the scenario's length (for a resumed run: the
+ * number of further iterations). {@code --save-state FILE} writes the solver's whole state when the run ends
+ * or is stopped (not after a blow-up); {@code --resume-state FILE} continues from such a state: the log is
+ * appended to, starting with a declared restart line, and the iteration count continues. The process stops early, after finishing the line it is writing, on SIGTERM (a shutdown
  * hook) or when a file named {@value #HALT_FILE} appears in the folder of the output file; in the second case
  * it writes a closing note and exits 0. Exit codes: 0 finished or halted, 2 bad usage, 3 I/O failure, 4 the
  * numerics blew up (non-finite residuals; the log ends with them).
@@ -64,6 +71,8 @@ public final class DemoSolverMain {
             opts.put(a.substring(2), args[++i]);
         }
         Scenario scenario;
+        Path saveState;
+        Path resumeState;
         LogWriter.Layout layout;
         Path outFile;
         long pace;
@@ -85,6 +94,8 @@ public final class DemoSolverMain {
                 double seconds = Double.parseDouble(opts.remove("seconds"));
                 pace = Math.max(0, Math.round(seconds * 1000.0 / Math.max(1, iterations)));
             }
+            saveState = opts.containsKey("save-state") ? Path.of(opts.remove("save-state")) : null;
+            resumeState = opts.containsKey("resume-state") ? Path.of(opts.remove("resume-state")) : null;
             if (!opts.isEmpty()) {
                 throw new IllegalArgumentException("unknown option --" + opts.keySet().iterator().next());
             }
@@ -96,16 +107,16 @@ public final class DemoSolverMain {
             return 2;
         }
         try {
-            return new Job(scenario, layout, outFile, pace, iterations).execute();
+            return new Job(scenario, layout, outFile, pace, iterations, saveState, resumeState).execute();
         } catch (IOException e) {
-            err.println("demo solver: cannot write " + outFile + ": " + e.getMessage());
+            err.println("demo solver: I/O failure (log " + outFile + "): " + e);
             return 3;
         }
     }
 
     private static String usage() {
         return "usage: DemoSolverMain --scenario NAME --layout jsonl|pass-line|sweep-block|table --out FILE"
-                + " [--pace-ms N | --seconds S] [--iterations N]\n  scenarios: " + String.join(", ", Scenario.ids())
+                + " [--pace-ms N | --seconds S] [--iterations N] [--save-state FILE] [--resume-state FILE]\n  scenarios: " + String.join(", ", Scenario.ids())
                 + "\n  stop: SIGTERM, or create " + HALT_FILE + " beside the log";
     }
 
@@ -117,10 +128,15 @@ public final class DemoSolverMain {
         private final Path haltFile;
         private final long pace;
         private final int iterations;
+        private final Path saveState;
+        private final Path resumeState;
         private volatile boolean terminating;
         private final CountDownLatch finished = new CountDownLatch(1);
 
-        Job(Scenario scenario, LogWriter.Layout layout, Path outFile, long pace, int iterations) {
+        Job(Scenario scenario, LogWriter.Layout layout, Path outFile, long pace, int iterations, Path saveState,
+                Path resumeState) {
+            this.saveState = saveState;
+            this.resumeState = resumeState;
             this.scenario = scenario;
             this.layout = layout;
             this.outFile = outFile;
@@ -143,15 +159,29 @@ public final class DemoSolverMain {
             }, "demo-solver-term");
             Runtime.getRuntime().addShutdownHook(hook);
             int code = 0;
+            ScenarioRun run;
+            if (resumeState != null) {
+                try (DataInputStream in = new DataInputStream(new BufferedInputStream(
+                        Files.newInputStream(resumeState)))) {
+                    run = new ScenarioRun(scenario, iterations, in);
+                }
+            } else {
+                run = new ScenarioRun(scenario, iterations);
+            }
+            // a resumed run appends to its log, a fresh one starts it
+            StandardOpenOption mode = resumeState != null ? StandardOpenOption.APPEND
+                    : StandardOpenOption.TRUNCATE_EXISTING;
             try (Writer w = new BufferedWriter(new OutputStreamWriter(Files.newOutputStream(outFile,
-                    StandardOpenOption.CREATE, StandardOpenOption.TRUNCATE_EXISTING, StandardOpenOption.WRITE),
-                    StandardCharsets.UTF_8))) {
-                ScenarioRun run = new ScenarioRun(scenario, iterations);
+                    StandardOpenOption.CREATE, mode, StandardOpenOption.WRITE), StandardCharsets.UTF_8))) {
                 Map<String, String> units = new LinkedHashMap<>();
                 for (int i = 0; i < run.monitorNames().size(); i++) {
                     units.put(run.monitorNames().get(i), run.monitorUnits().get(i));
                 }
                 LogWriter log = new LogWriter(w, layout, units);
+                if (resumeState != null) {
+                    last = run.iteration();
+                    log.restart(run.iteration());
+                }
                 log.note("case " + scenario.id() + ": " + scenario.title());
                 log.note("numerics: " + scenario.numerics());
                 boolean blewUp = false;
@@ -185,6 +215,10 @@ public final class DemoSolverMain {
                 } else if (!terminating && !run.hasNext()) {
                     log.note("end of run at pass " + last);
                 }
+                if (saveState != null && !blewUp) {
+                    writeState(run);
+                    log.note("state saved at pass " + last + " to " + saveState.getFileName());
+                }
             } finally {
                 finished.countDown();
             }
@@ -199,6 +233,15 @@ public final class DemoSolverMain {
         }
 
         private long last;
+
+        private void writeState(ScenarioRun run) throws IOException {
+            Path tmp = saveState.resolveSibling(saveState.getFileName() + ".tmp");
+            try (DataOutputStream out = new DataOutputStream(new BufferedOutputStream(Files.newOutputStream(tmp)))) {
+                run.saveState(out);
+            }
+            Files.move(tmp, saveState, java.nio.file.StandardCopyOption.REPLACE_EXISTING,
+                    java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+        }
 
         private static boolean finite(double[] values) {
             for (double v : values) {

@@ -13,9 +13,9 @@ import java.util.Map;
  * {@code pass-line}, {@code sweep-block} or {@code table}. Each complete line is flushed at once, so a watcher
  * following the file sees whole records as they are made.
  *
- * <p>Residuals print as {@code %.4e} in the table and jsonl, {@code %.3e} in the line layouts; monitors with
- * six significant digits ({@code %.6e} in the table); NaN and infinities as {@code NaN}, {@code Infinity},
- * {@code -Infinity} (quoted strings in jsonl). Not thread-safe; the caller owns (and closes) the writer.
+ * <p>Residuals print as {@code %.4e} in the table and jsonl, {@code %.3e} in the line layouts; monitors as
+ * {@code %.4e} in the table, {@code %.6e} in jsonl and {@code %.6g} in the line layouts; NaN and infinities
+ * as {@code NaN}, {@code Infinity}, {@code -Infinity} (quoted strings in jsonl). Not thread-safe; the caller owns (and closes) the writer.
  */
 public final class LogWriter {
 

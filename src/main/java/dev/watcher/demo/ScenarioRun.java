@@ -48,6 +48,25 @@ final class ScenarioRun {
         this.units = List.of(solver.monitorUnits());
     }
 
+    /**
+     * Continues a run from a state written by {@link #saveState}: the iteration counter (and time step)
+     * go on from the saved ones, and the run produces at most {@code maxRecords} further records.
+     */
+    ScenarioRun(Scenario scenario, int maxRecords, DataInputStream state) throws IOException {
+        this(scenario, maxRecords);
+        solver.load(state);
+    }
+
+    /** Iterations the solver has done (including those before a resumed state). */
+    long iteration() {
+        return solver.iteration();
+    }
+
+    /** Writes the solver's whole state, to be continued by the resuming constructor. */
+    void saveState(DataOutputStream out) throws IOException {
+        solver.save(out);
+    }
+
     Scenario scenario() {
         return scenario;
     }

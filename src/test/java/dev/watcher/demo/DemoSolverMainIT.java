@@ -94,6 +94,30 @@ class DemoSolverMainIT {
     }
 
     @Test
+    void savedStateResumesWithTheIterationCountContinuingAndTheSameNumbers() throws Exception {
+        Path log = dir.resolve("header.log");
+        Path state = dir.resolve("header.state");
+        PrintStream err = new PrintStream(new ByteArrayOutputStream(), true, StandardCharsets.UTF_8);
+        assertEquals(0, DemoSolverMain.run(new String[] {"--scenario", "converging", "--layout", "pass-line",
+            "--out", log.toString(), "--iterations", "100", "--save-state", state.toString()}, err));
+        assertEquals(0, DemoSolverMain.run(new String[] {"--scenario", "converging", "--layout", "pass-line",
+            "--out", log.toString(), "--iterations", "50", "--resume-state", state.toString()}, err));
+        List<String> lines = Files.readAllLines(log);
+        int banner = lines.indexOf("** restart from snapshot pass 100");
+        assertTrue(banner > 0, "declared restart in " + lines);
+        assertTrue(lines.get(banner - 1).startsWith("** note: state saved at pass 100"));
+        assertConsecutivePasses(lines); // 1..150 without a gap: the count continues
+
+        Path straight = dir.resolve("straight.log");
+        assertEquals(0, DemoSolverMain.run(new String[] {"--scenario", "converging", "--layout", "pass-line",
+            "--out", straight.toString(), "--iterations", "150"}, err));
+        String resumedLast = lines.stream().filter(l -> l.startsWith("~ pass 150 ")).findFirst().orElseThrow();
+        String straightLast = Files.readAllLines(straight).stream().filter(l -> l.startsWith("~ pass 150 "))
+                .findFirst().orElseThrow();
+        assertEquals(straightLast, resumedLast, "the restart is exact");
+    }
+
+    @Test
     void badUsageIsExitTwoWithTheKnownScenarios() {
         ByteArrayOutputStream err = new ByteArrayOutputStream();
         int code = DemoSolverMain.run(new String[] {"--scenario", "nope", "--out", dir.resolve("x").toString()},

@@ -34,6 +34,7 @@ class DemoIT {
         for (String l : Files.readAllLines(tl)) {
             events.add(JSON.readTree(l));
         }
+        TimelineContract.check(events);
         assertTrue(patterns(events, "east-header").contains("converged"), patterns(events, "east-header").toString());
         Set<String> hot = patterns(events, "east-header-hot");
         assertTrue(hot.contains("stalled-oscillation") || hot.contains("family-divergence"), hot.toString());

@@ -97,6 +97,7 @@ class ResumeAfterKillIT {
         assertEquals(0, second.exitValue(), Files.readString(dir.resolve("daemon2.out")));
 
         List<JsonNode> watched = timeline(tl);
+        TimelineContract.check(watched);
         assertTrue(watched.size() > before, "the second daemon went on writing");
         assertTrue(watched.stream().anyMatch(e -> e.get("state").asText().equals("resumed")));
         // seq: 1, 2, 3, ... with no gap and no repeat, across the kill

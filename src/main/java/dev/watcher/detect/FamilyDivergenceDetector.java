@@ -38,9 +38,9 @@ import java.util.function.Consumer;
  * significantly (Sen's interval of the window's slope below 0).
  *
  * <p>Parameters ({@code family-divergence.}): {@code window} 60 records, {@code min_rise} 0.5 decades,
- * {@code min_slope} 0.005 decades/iteration, {@code alpha} 0.01, {@code floor} 1e-12, {@code warmup} 50
+ * {@code min_slope} 0.002 decades/iteration, {@code alpha} 0.01, {@code floor} 1e-12, {@code warmup} 50
  * records per segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
- * added to {@code min_rise}), {@code baseline_window} 200 records (the minimum a rise is measured from is
+ * added to {@code min_rise}), {@code baseline_window} 400 records (the minimum a rise is measured from is
  * the lowest smoothed level over this many records),
  * {@code eval_every} 3 records, {@code min_family_size} 2. Cost: O(1) per value; the tests run only while a
  * member rises persistently.
@@ -75,7 +75,7 @@ final class FamilyDivergenceDetector implements Detector {
     FamilyDivergenceDetector(DetectSettings s) {
         window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
         minRise = s.number(P + "min_rise", 0.5);
-        minSlope = s.number(P + "min_slope", 0.005);
+        minSlope = s.number(P + "min_slope", 0.002);
         alpha = s.number(P + "alpha", 0.01);
         floor = Math.log10(s.number(P + "floor", 1e-12));
         warmup = Math.max(1, s.integer(P + "warmup", 50));
@@ -83,7 +83,7 @@ final class FamilyDivergenceDetector implements Detector {
         cusumH = s.number(P + "cusum_h", 5);
         minScale = s.number(P + "min_scale", 0.005);
         riseNoise = s.number(P + "rise_noise", 4);
-        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 200));
+        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 400));
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();

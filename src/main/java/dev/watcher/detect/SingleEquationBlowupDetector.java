@@ -26,8 +26,9 @@ import java.util.function.Consumer;
  * {@code eval_every} records, the late phase (the values since the minimum) must rise: Theil–Sen slope at
  * least {@code min_slope} decades/iteration with Sen's 95 % interval above 0, and a one-sided Mann–Kendall
  * p-value (exact up to 10 points, Hamed–Rao above) below {@code alpha}. Confinement: fewer than
- * {@code others_rising_fraction} of the other equations rise (half the rise suffices for them), and no
- * rising one shares the equation's family (for a family mate, a signalled CUSUM suffices) (two momentum components rising together are a
+ * {@code others_rising_fraction} of the other equations rise (for them a signalled CUSUM with a quarter of
+ * the rise, or a significant late rise of half of it, suffices), and no rising one shares the equation's
+ * family (two momentum components rising together are a
  * {@code family-divergence}). The slope's modified z-score among all equations' window slopes is
  * reported as evidence.
  *
@@ -35,12 +36,12 @@ import java.util.function.Consumer;
  * minimum it rose from, or, after a new segment, when the equation falls significantly (Sen's interval
  * of the window's slope below 0).
  *
- * <p>Parameters ({@code single-equation-blowup.}): {@code window} 60 records, {@code min_slope} 0.005
+ * <p>Parameters ({@code single-equation-blowup.}): {@code window} 60 records, {@code min_slope} 0.003
  * decades/iteration, {@code min_rise} 0.5 decades, {@code alpha} 0.01, {@code warmup} 50 records per
  * segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
- * added to {@code min_rise}), {@code baseline_window} 200 records (the minimum a rise is measured from is
+ * added to {@code min_rise}), {@code baseline_window} 300 records (the minimum a rise is measured from is
  * the lowest smoothed level over this many records), {@code eval_every} 3
- * records, {@code others_rising_fraction} 0.5. Cost: O(1) per value; O(window^2 log window) per evaluation,
+ * records, {@code others_rising_fraction} 0.25. Cost: O(1) per value; O(window^2 log window) per evaluation,
  * which happens only while a residual rises persistently.
  */
 final class SingleEquationBlowupDetector implements Detector {
@@ -65,7 +66,7 @@ final class SingleEquationBlowupDetector implements Detector {
 
     SingleEquationBlowupDetector(DetectSettings s) {
         window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
-        minSlope = s.number(P + "min_slope", 0.005);
+        minSlope = s.number(P + "min_slope", 0.003);
         minRise = s.number(P + "min_rise", 0.5);
         alpha = s.number(P + "alpha", 0.01);
         warmup = Math.max(1, s.integer(P + "warmup", 50));
@@ -73,9 +74,9 @@ final class SingleEquationBlowupDetector implements Detector {
         cusumH = s.number(P + "cusum_h", 5);
         minScale = s.number(P + "min_scale", 0.005);
         riseNoise = s.number(P + "rise_noise", 4);
-        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 200));
+        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 300));
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
-        othersRisingFraction = s.number(P + "others_rising_fraction", 0.5);
+        othersRisingFraction = s.number(P + "others_rising_fraction", 0.25);
         eqs = new PerName<>(Eq::new);
         xs = new double[window];
         ys = new double[window];
@@ -146,12 +147,12 @@ final class SingleEquationBlowupDetector implements Detector {
             others++;
             slopes.add(o.t.window(xs, ys).slope());
             boolean mate = e.t.family != null && e.t.family.equals(o.t.family);
-            if (risingLate(o.t, 0.5) != null) {
+            // another equation climbing too (a signalled CUSUM and a quarter of the rise, or a significant
+            // late rise of half of it): the residuals are not rising alone
+            boolean climbing = o.t.warm() && o.t.cusumSignalled() && o.t.rise() >= 0.25 * o.t.required(minRise);
+            if (climbing || risingLate(o.t, 0.5) != null) {
                 othersRising++;
                 familyMateRising |= mate;
-            } else if (mate && o.t.warm() && o.t.cusumSignalled()) {
-                // a family mate climbing persistently too: leave it to family-divergence
-                familyMateRising = true;
             }
         }
         if (familyMateRising || (others > 0 && othersRising >= othersRisingFraction * others)) {

@@ -22,6 +22,9 @@ final class DetectorTestSupport {
         int at = -1;
         for (int i = 0; i < rs.size(); i++) {
             double y = log(rs.get(i), eq);
+            if (!Double.isFinite(y)) {
+                continue; // an exact zero (no log of zero) or a missing value
+            }
             if (y < min) {
                 min = y;
                 at = i;
@@ -39,6 +42,9 @@ final class DetectorTestSupport {
             double v = r.residuals().get(eq, Double.NaN);
             if (!Double.isFinite(v)) {
                 return r.iter();
+            }
+            if (v <= 0) {
+                continue; // an exact zero has no log
             }
             double y = Math.log10(v);
             min = Math.min(min, y);

@@ -49,6 +49,15 @@ final class TimeSteps {
     private long count;
     private final int[] lengths = new int[REGULAR_STEPS];
     private int lengthCount;
+    // cost per record: the floor is the latest record's residuals, merged into the map only when the names
+    // list changes or the step ends; the peak takes new names only when the names list changes
+    private Samples stepLast;
+    private java.util.List<String> peakNames;
+    // log10 of the previous record's residuals (NaN where not positive and finite), for the jump test
+    private Samples logsOf;
+    private double[] logs = new double[8];
+    private double[] nowLogs = new double[8];
+    private double[] diffs = new double[8];
 
     TimeSteps(double jumpDecades) {
         this.jumpDecades = jumpDecades;
@@ -107,6 +116,7 @@ final class TimeSteps {
         }
         Step done = null;
         if (boundary) {
+            flushFloor();
             done = new Step(stepIndex, firstIter, lastIter, records, time, peak, floor, monitors.toMap());
             count++;
             if (!r.hasStep() && !r.hasInner()) {
@@ -126,11 +136,19 @@ final class TimeSteps {
             stepIndex = r.hasStep() ? r.step() : stepIndex + 1;
             firstIter = r.iter();
             records = 0;
+            stepLast = null;
+            peakNames = s.names();
         }
         Samples s = r.residuals();
-        for (int i = 0; i < s.size(); i++) {
-            floor.put(s.name(i), s.value(i));
-            peak.putIfAbsent(s.name(i), s.value(i));
+        if (stepLast != null && stepLast.names() != s.names()) {
+            flushFloor();
+        }
+        stepLast = s;
+        if (s.names() != peakNames) {
+            for (int i = 0; i < s.size(); i++) {
+                peak.putIfAbsent(s.name(i), s.value(i));
+            }
+            peakNames = s.names();
         }
         monitors = r.monitors();
         lastIter = r.iter();
@@ -141,19 +159,54 @@ final class TimeSteps {
         return done;
     }
 
+    /** Puts the latest record's residuals into the floor map (latest value per name, first-seen order). */
+    private void flushFloor() {
+        Samples last = stepLast;
+        if (last != null) {
+            for (int i = 0; i < last.size(); i++) {
+                floor.put(last.name(i), last.value(i));
+            }
+            stepLast = null;
+        }
+    }
+
     private boolean jumped(Samples before, Samples now) {
         if (before == null || now.isEmpty()) {
             return false;
         }
-        double[] d = new double[now.size()];
-        int k = 0;
-        for (int i = 0; i < now.size(); i++) {
-            double a = before.get(now.name(i), Double.NaN);
+        int n = now.size();
+        if (nowLogs.length < n) {
+            nowLogs = new double[n];
+            diffs = new double[n];
+        }
+        double[] cur = nowLogs;
+        for (int i = 0; i < n; i++) {
             double b = now.value(i);
-            if (a > 0 && b > 0 && Double.isFinite(a) && Double.isFinite(b)) {
-                d[k++] = Math.log10(b) - Math.log10(a);
+            cur[i] = b > 0 && Double.isFinite(b) ? Math.log10(b) : Double.NaN;
+        }
+        boolean aligned = before == logsOf && before.names() == now.names();
+        double[] d = diffs;
+        int k = 0;
+        for (int i = 0; i < n; i++) {
+            double lb = cur[i];
+            if (Double.isNaN(lb)) {
+                continue;
+            }
+            double la;
+            if (aligned) {
+                la = logs[i];
+            } else {
+                double a = before.get(now.name(i), Double.NaN);
+                la = a > 0 && Double.isFinite(a) ? Math.log10(a) : Double.NaN;
+            }
+            if (!Double.isNaN(la)) {
+                d[k++] = lb - la;
             }
         }
+        // keep this record's logs for the next call
+        nowLogs = logs.length >= n ? logs : new double[n];
+        logs = cur;
+        logsOf = now;
         if (k == 0) {
             return false;
         }

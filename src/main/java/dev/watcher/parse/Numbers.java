@@ -1,6 +1,7 @@
 package dev.watcher.parse;
 
 import ch.randelshofer.fastdoubleparser.JavaDoubleParser;
+import dev.watcher.model.AsciiText;
 
 /**
  * Fast, tolerant parsing of the numbers solvers print. Pure, stateless and safe to share between threads.
@@ -263,6 +264,93 @@ public final class Numbers {
             return negative ? -v : v;
         }
         return parse(s, from, i);
+    }
+
+    /**
+     * {@link #scan} over the bytes of an ASCII line, without a call through {@link CharSequence} per
+     * character: the same results (anything unusual goes to the same slow path).
+     */
+    static double scanAscii(AsciiText t, int from, int to, int[] end) {
+        byte[] b = t.array();
+        int o = t.offset();
+        int i = from;
+        char c = (char) b[o + i];
+        boolean negative = false;
+        if (c == '-' || c == '+') {
+            negative = c == '-';
+            i++;
+        }
+        long mantissa = 0;
+        int significant = 0;
+        int fractionDigits = 0;
+        boolean digits = false;
+        boolean dot = false;
+        for (; i < to; i++) {
+            c = (char) b[o + i];
+            if (c >= '0' && c <= '9') {
+                if (significant >= 18) {
+                    return scanSlow(t, from, to, end);
+                }
+                digits = true;
+                if (mantissa != 0 || c != '0') {
+                    significant++;
+                }
+                mantissa = mantissa * 10 + (c - '0');
+                if (dot) {
+                    fractionDigits++;
+                }
+            } else if (c == '.' && !dot) {
+                dot = true;
+            } else {
+                break;
+            }
+        }
+        int exponent = 0;
+        if (i < to && (c == 'e' || c == 'E')) {
+            i++;
+            boolean expNegative = false;
+            if (i < to) {
+                c = (char) b[o + i];
+                if (c == '+' || c == '-') {
+                    expNegative = c == '-';
+                    i++;
+                }
+            }
+            int first = i;
+            for (; i < to; i++) {
+                c = (char) b[o + i];
+                if (c < '0' || c > '9') {
+                    break;
+                }
+                exponent = exponent * 10 + (c - '0');
+            }
+            if (i == first || i - first > 4) {
+                return scanSlow(t, from, to, end);
+            }
+            if (expNegative) {
+                exponent = -exponent;
+            }
+        }
+        if (i < to) {
+            c = (char) b[o + i];
+            if (c != ' ' && c != '\t' && c != '\r') {
+                return scanSlow(t, from, to, end);
+            }
+        }
+        if (!digits) {
+            return scanSlow(t, from, to, end);
+        }
+        end[0] = i;
+        if (mantissa == 0) {
+            return negative ? -0.0 : 0.0;
+        }
+        int k = exponent - fractionDigits;
+        if (mantissa < TWO_53 && k >= -22 && k <= 22) {
+            double m = mantissa;
+            double v = k < 0 ? m / POW10[-k] : m * POW10[k];
+            return negative ? -v : v;
+        }
+        return parse(t, from, i);
     }
 
     private static double scanSlow(CharSequence s, int from, int to, int[] end) {

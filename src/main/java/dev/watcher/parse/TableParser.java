@@ -1,5 +1,6 @@
 package dev.watcher.parse;
 
+import dev.watcher.model.AsciiText;
 import dev.watcher.model.IterationRecord;
 import dev.watcher.model.LineParser;
 import dev.watcher.model.Malformed;
@@ -52,8 +53,10 @@ final class TableParser implements LineParser {
     @Override
     public void accept(CharSequence line, long lineNo, ParseSink sink) {
         int n = line.length();
-        if (delimiter == 0 && header != null && header.fast && fastRow(line, n, lineNo, sink)) {
-            return;
+        if (delimiter == 0 && header != null && header.fast) {
+            if (line instanceof AsciiText a ? fastRowAscii(a, n, lineNo, sink) : fastRow(line, n, lineNo, sink)) {
+                return;
+            }
         }
         int pos = 0;
         while (true) {
@@ -118,6 +121,98 @@ final class TableParser implements LineParser {
                 return false;
             }
             double v = Numbers.scan(s, i, n, end);
+            if (Numbers.isMalformed(v)) {
+                return false;
+            }
+            switch (kinds[k]) {
+                case Header.RESIDUAL:
+                    res[slots[k]] = v;
+                    break;
+                case Header.MONITOR:
+                    mon[slots[k]] = v;
+                    break;
+                case Header.ITERATION:
+                    iter = counter(v);
+                    if (iter < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.STEP:
+                    step = counter(v);
+                    if (step < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.INNER:
+                    inner = counter(v);
+                    if (inner < 0) {
+                        return false;
+                    }
+                    break;
+                case Header.TIME:
+                    time = v;
+                    break;
+                default:
+                    break;
+            }
+            i = end[0];
+            k++;
+        }
+        if (k != columns) {
+            return false;
+        }
+        int segment = segments.before(iter, lineNo, sink);
+        sink.record(new IterationRecord(iter, step, time, inner,
+                res.length == 0 ? Samples.EMPTY : new Samples(h.resNames, res),
+                mon.length == 0 ? Samples.EMPTY : new Samples(h.monNames, mon), segment, lineNo));
+        return true;
+    }
+
+    /** {@link #fastRow} over the bytes of an ASCII line: the same results. */
+    private boolean fastRowAscii(AsciiText s, int n, long lineNo, ParseSink sink) {
+        byte[] b = s.array();
+        int o = s.offset();
+        Header h = header;
+        int i = 0;
+        char c = 0;
+        while (i < n && ((c = (char) b[o + i]) == ' ' || c == '\t')) {
+            i++;
+        }
+        if (i == n || c < '0' || c > '9') {
+            return false;
+        }
+        int[] kinds = h.kinds;
+        int[] slots = h.slotOf;
+        int columns = kinds.length;
+        double[] res = new double[h.resNames.size()];
+        double[] mon = new double[h.monNames.size()];
+        long iter = -1;
+        long step = IterationRecord.NONE;
+        long inner = IterationRecord.NONE;
+        double time = Double.NaN;
+        int k = 0;
+        int[] end = this.end;
+        while (true) {
+            while (i < n && ((c = (char) b[o + i]) == ' ' || c == '\t')) {
+                i++;
+            }
+            if (i == n) {
+                break;
+            }
+            if (c == '\r') {
+                int j = i + 1;
+                while (j < n && ((c = (char) b[o + j]) == ' ' || c == '\t' || c == '\r')) {
+                    j++;
+                }
+                if (j < n) {
+                    return false; // a progress line redrawn in place: the general path splits it
+                }
+                break;
+            }
+            if (k == columns) {
+                return false;
+            }
+            double v = Numbers.scanAscii(s, i, n, end);
             if (Numbers.isMalformed(v)) {
                 return false;
             }

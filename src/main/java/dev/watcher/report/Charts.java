@@ -51,8 +51,9 @@ final class Charts {
         long count = tracks.values().stream().mapToLong(History.Track::count).max().orElse(0);
         String caption = "Highest residual in each bucket of " + Numbers.count(width) + " iteration"
                 + (width == 1 ? "" : "s") + " (" + Numbers.count(count) + " records), log axis; dashed grey lines"
-                + " at 1e-3, 1e-5 and 1e-6. Shaded spans: a condition open, from the marker where it opened"
-                + " to the ring where it resolved; numbers are the event numbers of the table below."
+                + " at 1e-3, 1e-5 and 1e-6. Bars at the top (and faint shading): a condition open, from the"
+                + " marker where it opened (\u25bc critical, \u25c6 warning, \u25a0 info) to the ring where it"
+                + " resolved; numbers are the event numbers of the table below."
                 + " \u2715 at the top: a non-finite value in that bucket."
                 + (spec.path("actions").isEmpty() ? "" : " Solid purple line: a stop of the job (requested,"
                         + " carried out, or only proposed).");
@@ -96,7 +97,11 @@ final class Charts {
             addBand(bandSpans, e, -1);
             bandText = bandDescription(e);
         }
+        if (!bandSpans.isEmpty()) {
+            legend.add(new Line("settled or periodic band (hatched)", "#0072B2", new int[0], 6));
+        }
         if (Double.isFinite(predicted)) {
+            legend.add(new Line("predicted final value", "#000000", new int[] {10, 4, 2, 4}, 1.5));
             spec.put("predicted", Numbers.round4(predicted));
             spec.put("predictedLabel", "predicted final \u2248 " + Numbers.show(predicted));
         }

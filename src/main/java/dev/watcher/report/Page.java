@@ -387,10 +387,9 @@ final class Page {
     }
 
     private static String shown(JsonNode n) {
-        if (n == null || n.isNull() || n.isMissingNode()) {
-            return "\u2013";
-        }
-        return Numbers.show(Numbers.of(n));
+        double v = Numbers.of(n);
+        // a forecast that has no value (NaN) is shown as a dash; an infinite one as the value it is
+        return Double.isNaN(v) ? "\u2013" : Numbers.show(v);
     }
 
     private void actions(RunData r) {

@@ -75,8 +75,6 @@
       ctx.restore();
       ctx.strokeStyle = "#0072B2"; ctx.beginPath(); ctx.moveTo(x0, y0); ctx.lineTo(x1, y0);
       ctx.moveTo(x0, y1); ctx.lineTo(x1, y1); ctx.stroke();
-      ctx.fillStyle = "#00466e"; ctx.textAlign = "left"; ctx.textBaseline = "top";
-      ctx.fillText(s.label, x0 + 3 * px, y1 + 3 * px);
       check.bands++;
     });
     if (c.predicted != null) {
@@ -88,11 +86,18 @@
       ctx.fillText(c.predictedLabel, right - 14 * px, yp - 4 * px);
       check.predicted++;
     }
-    var lastLabel = -1e9;
+    var lastLabel = -1e9, lanes = [];
     (c.spans || []).forEach(function (s) {
       var col = SEV[s.sev] || SEV.info, x0 = X(s.x0), x1 = X(s.x1);
-      ctx.globalAlpha = s.sev === "info" ? 0.07 : 0.12; ctx.fillStyle = col;
+      // a faint tint over the plot (overlapping conditions stay readable), and a bar in its own lane
+      ctx.globalAlpha = 0.05; ctx.fillStyle = col;
       ctx.fillRect(x0, top, Math.max(x1 - x0, px), b.height); ctx.globalAlpha = 1;
+      var lane = 0;
+      while (lanes[lane] != null && lanes[lane] > x0 - 2 * px) { lane++; }
+      lanes[lane] = x1;
+      var ly = top + 16 * px + (lane % 8) * 6 * px;
+      ctx.globalAlpha = 0.75; ctx.fillStyle = col;
+      ctx.fillRect(x0, ly, Math.max(x1 - x0, 2 * px), 4 * px); ctx.globalAlpha = 1;
       ctx.strokeStyle = col; ctx.lineWidth = px; ctx.setLineDash([3 * px, 3 * px]);
       ctx.beginPath(); ctx.moveTo(x0, top); ctx.lineTo(x0, bottom); ctx.stroke(); ctx.setLineDash([]);
       shape(ctx, s.sev, x0, top + 7 * px, 6 * px); ctx.fillStyle = col; ctx.fill();

@@ -305,7 +305,7 @@ final class ConvergedDetector implements Detector {
             String k = EvidenceNames.key(name);
             st.forEach((key, v) -> e.put(k + "_" + key, v instanceof Double d ? EvidenceNames.round(d) : v));
         });
-        return e;
+        return EvidenceNames.finite(e);
     }
 
     /**
@@ -403,7 +403,7 @@ final class ConvergedDetector implements Detector {
         Map<String, Object> mons = new LinkedHashMap<>();
         monitorStates.forEach((k, v) -> mons.put(k, Map.copyOf(v)));
         m.put("monitors", mons);
-        return m;
+        return EvidenceNames.finite(m);
     }
 
     /** The latest forecast of an equation, or null. */

@@ -129,7 +129,7 @@ final class InnerStallDetector implements Detector {
         RollingWindow f = floors.get(eq);
         e.put("equation", eq);
         if (d == null || d.size() == 0) {
-            return e;
+            return EvidenceNames.finite(e);
         }
         e.put("median_drop_decades", EvidenceNames.round(median(d.toArray())));
         e.put("first_drop_decades", EvidenceNames.round(d.get(0)));
@@ -138,7 +138,7 @@ final class InnerStallDetector implements Detector {
         e.put("floor_rise_decades", EvidenceNames.round(f.last() - f.get(0)));
         e.put("steps", d.size());
         e.put("step_basis", steps.basis());
-        return e;
+        return EvidenceNames.finite(e);
     }
 
     private static double median(double[] v) {
@@ -164,6 +164,6 @@ final class InnerStallDetector implements Detector {
         Map<String, Object> eq = new LinkedHashMap<>();
         drops.forEach((k, d) -> eq.put(k, Map.of("median_drop_decades", median(d.toArray()))));
         m.put("equations", eq);
-        return m;
+        return EvidenceNames.finite(m);
     }
 }

@@ -112,7 +112,7 @@ final class MonitorPeriodicDetector implements Detector {
         e.put("fisher_g", EvidenceNames.round(c.g()));
         e.put("fisher_g_p_value", EvidenceNames.round(c.pValue()));
         e.put("reason", c.reason());
-        return e;
+        return EvidenceNames.finite(e);
     }
 
     @Override
@@ -131,6 +131,6 @@ final class MonitorPeriodicDetector implements Detector {
             v.put("open", open.getOrDefault(name, false));
             m.put(name, v);
         });
-        return Map.of("monitors", m);
+        return EvidenceNames.finite(Map.of("monitors", m));
     }
 }

@@ -102,7 +102,7 @@ final class MonitorSettledDetector implements Detector {
         e.put("remaining_error", EvidenceNames.round(s.remainingError()));
         e.put("sampling", series.unsteady() ? "step-end" : "iteration");
         e.put("reason", s.reason());
-        return e;
+        return EvidenceNames.finite(e);
     }
 
     @Override
@@ -127,6 +127,6 @@ final class MonitorSettledDetector implements Detector {
             v.put("remaining_error", s.remainingError());
             m.put(name, v);
         });
-        return Map.of("monitors", m);
+        return EvidenceNames.finite(Map.of("monitors", m));
     }
 }

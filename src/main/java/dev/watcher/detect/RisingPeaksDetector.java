@@ -227,7 +227,7 @@ final class RisingPeaksDetector implements Detector {
         e.put("test", t.exact() ? "exact" : "normal");
         e.put("period_steps", t.period());
         e.put("step_basis", steps.basis());
-        return e;
+        return EvidenceNames.finite(e);
     }
 
     @Override
@@ -250,6 +250,6 @@ final class RisingPeaksDetector implements Detector {
         lastTest.forEach((k, t) -> eq.put(k, Map.of("slope_decades_per_step", t.slope(), "p_value", t.pIncreasing(),
                 "period_steps", t.period())));
         m.put("equations", eq);
-        return m;
+        return EvidenceNames.finite(m);
     }
 }

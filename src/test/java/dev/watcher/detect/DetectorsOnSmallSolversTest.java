@@ -189,4 +189,28 @@ class DetectorsOnSmallSolversTest {
         }
         assertTrue(r.firstOpen(Patterns.RISING_PEAKS).isEmpty(), r.detections.toString());
     }
+
+    @Test
+    void evidenceAndSnapshotsCarryOnlyFiniteNumbers() {
+        // JSON has no NaN: an unknown value is left out instead
+        Detector[] ds = mine(DetectSettings.defaults());
+        Harness r = Harness.run(SmallSolvers.reactionDiffusion(2.2, 150, 4, 1e-4), ds);
+        Harness.run(SmallSolvers.poissonGaussSeidel(48, 300, 0.5, 1), ds);
+        for (Detection d : r.detections) {
+            assertFinite(d.evidence());
+        }
+        for (Detector d : ds) {
+            assertFinite(d.snapshot());
+        }
+    }
+
+    private static void assertFinite(Map<?, ?> m) {
+        for (Object v : m.values()) {
+            if (v instanceof Double d) {
+                assertTrue(Double.isFinite(d), m.toString());
+            } else if (v instanceof Map<?, ?> inner) {
+                assertFinite(inner);
+            }
+        }
+    }
 }

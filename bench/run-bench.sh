@@ -80,6 +80,10 @@ run_one() {
   else
     echo "watcher replay  not available yet (no ./watcher with a replay command)"
   fi
+  # the detectors' share: the same record model generated in memory, every standard detector, per record
+  timed java -Xmx"$xmx" -cp "$jar" dev.watcher.bench.DetectBench "$lines"
+  echo "detectors       wall ${wall} s  cpu ${cpu} s  (records generated in memory; per detector below)"
+  sed 's/^/                /' "$work/out" | grep -vF 'e.g.'
   [[ "${BENCH_KEEP:-0}" == 1 ]] || rm -f "$file"
 }
 

@@ -44,7 +44,7 @@ public record TheilSen(int n, double slope, double low, double high, double inte
         // order statistics by selection, O(m) expected, instead of sorting the m = O(n^2) slopes
         double lo = Select.kth(slopes, 0, m, lower);
         double hi = Select.kth(slopes, 0, m, upper);
-        double slope = medianBetween(slopes, m, lower, upper);
+        double slope = medianOf(slopes, m);
         double intercept = median(y, n) - slope * median(x, n);
         return new TheilSen(n, slope, lo, hi, intercept, confidence);
     }
@@ -70,11 +70,11 @@ public record TheilSen(int n, double slope, double low, double high, double inte
                 slopes[m++] = (y[j] - y[i]) / (j - i);
             }
         }
-        return medianBetween(slopes, m, 0, m - 1);
+        return medianOf(slopes, m);
     }
 
     /** The median of a[0..m) by selection; reorders a. */
-    private static double medianBetween(double[] a, int m, int lowerIgnored, int upperIgnored) {
+    private static double medianOf(double[] a, int m) {
         double hi = Select.kth(a, 0, m, m / 2);
         if ((m & 1) == 1) {
             return hi;

@@ -74,6 +74,10 @@ final class ConvergedDetector implements Detector {
     private final Map<String, double[]> targetSpecs = new HashMap<>();
     private final Map<String, RollingWindow> logs = new LinkedHashMap<>();
     private final Map<String, RollingWindow> iters = new HashMap<>();
+    // the windows of the last names list seen (records usually share one list per header)
+    private List<String> slotNames;
+    private RollingWindow[] slotLogs;
+    private RollingWindow[] slotIters;
     private final Map<String, Forecast> forecasts = new LinkedHashMap<>();
     private final Map<String, Map<String, Object>> monitorStates = new LinkedHashMap<>();
     private List<String> waitingFor = List.of();
@@ -121,13 +125,20 @@ final class ConvergedDetector implements Detector {
             sample = step.floor();
             iter = step.lastIter();
         } else {
-            sample = toMap(record.residuals());
+            Samples res = record.residuals();
+            if (res.isEmpty()) {
+                return;
+            }
+            addSample(res, record.iter()); // the same as addSample(toMap(res), iter), without the map
+            sample = null;
             iter = record.iter();
         }
-        if (sample.isEmpty()) {
-            return;
+        if (sample != null) {
+            if (sample.isEmpty()) {
+                return;
+            }
+            addSample(sample, iter);
         }
-        addSample(sample, iter);
         samples++;
         if (open) {
             checkOpen(out);
@@ -146,28 +157,46 @@ final class ConvergedDetector implements Detector {
 
     private void addSample(Map<String, Double> sample, long iter) {
         lastIter = iter;
-        sample.forEach((eq, v) -> {
-            latest.put(eq, v);
-            boolean finite = v > 0 && Double.isFinite(v);
-            if (finite) {
-                runMax.merge(eq, v, Math::max);
+        sample.forEach((eq, v) -> addValue(eq, v, iter, logs.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow)),
+                iters.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow))));
+    }
+
+    /** One record's residuals in the log's order; the windows found once per names list. */
+    private void addSample(Samples sample, long iter) {
+        lastIter = iter;
+        if (sample.names() != slotNames) {
+            slotNames = sample.names();
+            slotLogs = new RollingWindow[slotNames.size()];
+            slotIters = new RollingWindow[slotNames.size()];
+            for (int i = 0; i < slotLogs.length; i++) {
+                slotLogs[i] = logs.computeIfAbsent(slotNames.get(i), k -> new RollingWindow(forecastWindow));
+                slotIters[i] = iters.computeIfAbsent(slotNames.get(i), k -> new RollingWindow(forecastWindow));
             }
-            atTarget.put(eq, finite && v <= targetOf(eq) ? atTarget.getOrDefault(eq, 0) + 1 : 0);
-            RollingWindow w = logs.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow));
-            RollingWindow it = iters.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow));
-            if (!finite) {
-                w.clear();
-                it.clear();
-                return;
-            }
-            double y = Math.log10(v);
-            if (w.size() > 0 && y - w.last() > regimeJump) {
-                w.clear(); // a new regime: the earlier slope says nothing about the way ahead
-                it.clear();
-            }
-            w.add(y);
-            it.add(iter);
-        });
+        }
+        for (int i = 0; i < slotLogs.length; i++) {
+            addValue(slotNames.get(i), sample.value(i), iter, slotLogs[i], slotIters[i]);
+        }
+    }
+
+    private void addValue(String eq, double v, long iter, RollingWindow w, RollingWindow it) {
+        latest.put(eq, v);
+        boolean finite = v > 0 && Double.isFinite(v);
+        if (finite) {
+            runMax.merge(eq, v, Math::max);
+        }
+        atTarget.put(eq, finite && v <= targetOf(eq) ? atTarget.getOrDefault(eq, 0) + 1 : 0);
+        if (!finite) {
+            w.clear();
+            it.clear();
+            return;
+        }
+        double y = Math.log10(v);
+        if (w.size() > 0 && y - w.last() > regimeJump) {
+            w.clear(); // a new regime: the earlier slope says nothing about the way ahead
+            it.clear();
+        }
+        w.add(y);
+        it.add(iter);
     }
 
     /** The target of an equation: absolute, or orders of magnitude below its maximum when drop orders are set. */

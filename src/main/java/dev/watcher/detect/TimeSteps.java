@@ -109,7 +109,8 @@ final class TimeSteps {
             basis = "inner";
             boundary = peak != null && r.inner() <= lastInner;
         } else {
-            boundary = peak != null && jumped(previous, r.residuals());
+            // an infinite jump threshold never splits: skip the test
+            boundary = peak != null && jumpDecades != Double.POSITIVE_INFINITY && jumped(previous, r.residuals());
             if (boundary) {
                 basis = "jump";
             }

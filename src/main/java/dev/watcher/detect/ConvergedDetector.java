@@ -103,6 +103,12 @@ final class ConvergedDetector implements Detector {
         this.forecastEvery = Math.max(1, s.integer(p + "forecast_every", 50));
         this.regimeJump = s.number(p + "regime_jump_decades", 1.0);
         this.monitorResolveFactor = Math.max(1, s.number(Patterns.MONITOR_SETTLED + ".resolve_factor", 2));
+        // per-equation targets are read now, so that the start-up check of the parameters knows them
+        for (String k : s.overrides().keySet()) {
+            if (k.startsWith(p + "residual_target.") || k.startsWith(p + "drop_orders.")) {
+                s.number(k, Double.NaN);
+            }
+        }
         this.judge = new MonitorJudge(s);
         int window = Math.max(s.integer(Patterns.MONITOR_SETTLED + ".window", 1000),
                 s.integer(Patterns.MONITOR_PERIODIC + ".window", 1024));

@@ -64,6 +64,10 @@ class StepsAndTargetsTest {
                 "converged.residual_target.species", "1e-3")));
         assertEquals(1e-3, d.targetOf("species"));
         assertEquals(1e-5, d.targetOf("heat"));
+        // read at construction, so that a check of the overrides before the run knows the key
+        DetectSettings fresh = DetectSettings.defaults().with(Map.of("converged.residual_target.species", "1e-3"));
+        new ConvergedDetector(fresh);
+        assertEquals("0.001", fresh.used().get("converged.residual_target.species"));
     }
 
     @Test

@@ -79,6 +79,9 @@ public final class StopCoordinator implements AutoCloseable {
         Held(StopRequest r, Instant since) {
             this.latest = r;
             this.since = since;
+            // the record that raised the condition is the first one it held for: a solver that writes one
+            // NaN record and dies must still be stoppable with a gate of one record
+            this.records = 1;
         }
     }
 

@@ -79,8 +79,7 @@ public final class Daemon {
     }
 
     private int watch(Vertx vertx, StateDir state, Journal journal) throws InterruptedException, IOException {
-        List<ChannelSpec> channels = new ArrayList<>(config.rules().channels());
-        channels.addAll(config.quick());
+        List<ChannelSpec> channels = config.effectiveRules().channels();
         Dispatcher dispatcher = null;
         if (!channels.isEmpty()) {
             dispatcher = new Dispatcher(vertx, state.outboxDir(), channels, journal, config.clock());

@@ -52,6 +52,11 @@ public record DaemonConfig(List<RunSpec> runs, RuleSet rules, Map<String, String
         }
     }
 
+    /** The rules with the quick channels added: they route notices, and the dispatcher delivers to them. */
+    public dev.watcher.rules.RuleSet effectiveRules() {
+        return quick.isEmpty() ? rules : rules.withQuickChannels(quick);
+    }
+
     /** The timeline file: given, or {@code timeline.jsonl} in the state directory. */
     public Path timelineFile() {
         return timeline != null ? timeline : stateDir.resolve("timeline.jsonl");

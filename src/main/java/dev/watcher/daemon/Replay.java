@@ -39,8 +39,7 @@ public final class Replay {
                         c.quiet() ? null : new ConsoleEcho(c.out()), true)) {
             Vertx vertx = null;
             Dispatcher dispatcher = null;
-            List<ChannelSpec> channels = new ArrayList<>(c.rules().channels());
-            channels.addAll(c.quick());
+            List<ChannelSpec> channels = c.effectiveRules().channels();
             if (c.sendNotices() && !channels.isEmpty()) {
                 vertx = Daemon.newVertx(null);
                 dispatcher = new Dispatcher(vertx, state.outboxDir(), channels, journal, c.clock());
@@ -88,7 +87,7 @@ public final class Replay {
                 history.observe(r);
             }
         };
-        RunPipeline p = Pipelines.build(spec, c.rules(), c.overrides(), out, 1_000_000, c.clock());
+        RunPipeline p = Pipelines.build(spec, c.effectiveRules(), c.overrides(), out, 1_000_000, c.clock());
         // Holds and gathering run on wall time, which a full-speed replay does not give them: the rules keep
         // their state while the log is read, and with --notify what is still open at the end is sent.
         p.decider().setCatchingUp(true);

@@ -109,7 +109,7 @@ final class WatchedRun extends VerticleBase {
     @Override
     public Future<?> start() throws Exception {
         String run = spec.name();
-        pipeline = Pipelines.build(spec, config.rules(), config.overrides(), new Outputs(),
+        pipeline = Pipelines.build(spec, config.effectiveRules(), config.overrides(), new Outputs(),
                 dev.watcher.parse.RecordJoiner.DEFAULT_MAX_PENDING, config.clock());
         pipeline.decider().setCatchingUp(true);
         silence = new SilenceWatch(config.clock(), config.silenceMin(), 20.0);

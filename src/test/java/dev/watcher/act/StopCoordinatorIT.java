@@ -112,7 +112,7 @@ class StopCoordinatorIT {
             TimelineEvent refused = sink.events().get(0);
             assertEquals(true, refused.fields().get("pending"));
             String reason = (String) refused.fields().get("reason");
-            assertTrue(reason.contains("persisted 0 of 3 records"), reason);
+            assertTrue(reason.contains("persisted 1 of 3 records"), reason);
             assertTrue(reason.contains("of 10.0 s"), reason);
             c.recordSeen(101);
             c.recordSeen(102);

@@ -135,19 +135,24 @@ final class WatchedRun extends VerticleBase {
         return Future.succeededFuture();
     }
 
+    /**
+     * False only when the saved state proves that a log is another file now (its first bytes differ): then
+     * what is re-read is new and must be written. Without proof (no state saved yet, a daemon killed before
+     * its first save) the files are taken as the same, so nothing is written twice.
+     */
     private boolean sameFiles(Map<String, Object> saved) {
         Object heads = saved.get("heads");
         if (!(heads instanceof List<?> list) || list.size() != spec.sources().size()) {
-            return false;
+            return true;
         }
         for (int i = 0; i < list.size(); i++) {
             if (!(list.get(i) instanceof Map<?, ?> m)) {
-                return false;
+                continue;
             }
             Object len = m.get("length");
             Object hash = m.get("sha256");
-            if (!(len instanceof Number n) || hash == null) {
-                return false;
+            if (!(len instanceof Number n) || hash == null || n.intValue() == 0) {
+                continue;
             }
             String now = headHash(spec.sources().get(i), n.intValue());
             if (!hash.toString().equals(now)) {

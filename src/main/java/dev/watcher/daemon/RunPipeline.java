@@ -121,7 +121,7 @@ final class RunPipeline {
     /** A detection that did not come from a detector (the silence watchdog) goes through the rules too. */
     void external(Detection d) {
         if (d.iter() <= 0 && last != null) {
-            // the watchdog knows no iterations: the event refers to the last record seen
+            // the watchdog counts wall time, not passes: the event refers to the last record seen
             d = new Detection(d.pattern(), d.state(), d.severity(), last.iter(), d.equations(), d.monitor(),
                     d.summary(), d.remedy(), d.evidence());
         }

@@ -28,7 +28,8 @@ import java.util.function.Consumer;
  * the harness only, never in production code). Prints one line per detector in nanoseconds per record, and
  * the parse cost per record by thread CPU time.
  *
- * <p>Usage: {@code DetectorBench FILE}. The figures are a measurement, never a test; the timer's own cost
+ * <p>Usage: {@code DetectorBench FILE [Word,...]} (with words: only the detectors whose class name contains
+ * one, e.g. {@code NonFinite,ResidualLevel} for the parse plus the first detectors). The figures are a measurement, never a test; the timer's own cost
  * (some tens of nanoseconds per call) is included in each detector's figure.
  */
 public final class DetectorBench {
@@ -38,11 +39,16 @@ public final class DetectorBench {
 
     public static void main(String[] args) throws IOException {
         if (args.length < 1) {
-            System.err.println("usage: DetectorBench FILE");
+            System.err.println("usage: DetectorBench FILE [Word,...]");
             System.exit(2);
         }
         Path file = Path.of(args[0]);
-        List<Detector> detectors = Detectors.standard(DetectSettings.defaults());
+        List<Detector> detectors = new java.util.ArrayList<>(Detectors.standard(DetectSettings.defaults()));
+        if (args.length > 1) {
+            // only the detectors whose class name contains one of the given words
+            List<String> words = List.of(args[1].split(","));
+            detectors.removeIf(d -> words.stream().noneMatch(d.getClass().getSimpleName()::contains));
+        }
         int n = detectors.size();
         long[] nanos = new long[n];
         long[] detections = new long[n];

@@ -82,14 +82,19 @@ final class Jobs implements AutoCloseable {
 
     /**
      * Calls {@code perRun} with the run's name and job description when that run's job ends, and
-     * {@code all} once every attached job has ended (never when no job is attached).
+     * {@code all} once every attached job has ended (never when no job is attached). When the job ends
+     * because the watcher is stopping it, {@code perRun} waits until the stop sequence has recorded its last
+     * step (the job's end is what it waits for too), so the timeline has {@code done} before the run ends.
      */
     void onEnd(java.util.function.BiFunction<String, String, CompletableFuture<Void>> perRun, Runnable all) {
         if (controls.isEmpty()) {
             return;
         }
         List<CompletableFuture<Void>> ends = new ArrayList<>();
-        controls.forEach((run, c) -> ends.add(c.onEnd().thenCompose(v -> perRun.apply(run, c.job().describe()))
+        controls.forEach((run, c) -> ends.add(c.onEnd()
+                .thenCompose(v -> coordinators.get(run).stopSequence()
+                        .map(s -> s.exceptionally(t -> null)).orElse(CompletableFuture.completedFuture(null)))
+                .thenCompose(v -> perRun.apply(run, c.job().describe()))
                 .exceptionally(t -> null)));
         CompletableFuture.allOf(ends.toArray(CompletableFuture[]::new)).thenRun(all);
     }

@@ -273,6 +273,40 @@ public final class Numbers {
     static double scanAscii(AsciiText t, int from, int to, int[] end) {
         byte[] b = t.array();
         int o = t.offset();
+        // The shape solvers print most ("%.4e": [-]d.dddde+dd) read at fixed positions; the value is the one
+        // the general loop below computes (the same mantissa, digit count and exponent, the same operation).
+        int p = from;
+        boolean neg = b[o + p] == '-';
+        if (neg) {
+            p++;
+        }
+        if (p + 10 <= to) {
+            int q = o + p;
+            int d0 = b[q] - '0';
+            int d1 = b[q + 2] - '0';
+            int d2 = b[q + 3] - '0';
+            int d3 = b[q + 4] - '0';
+            int d4 = b[q + 5] - '0';
+            int e1 = b[q + 8] - '0';
+            int e2 = b[q + 9] - '0';
+            byte es = b[q + 7];
+            byte after = p + 10 < to ? b[q + 10] : (byte) ' ';
+            if (b[q + 1] == '.' && (b[q + 6] == 'e' || b[q + 6] == 'E') && (es == '+' || es == '-')
+                    && (char) d0 < 10 && (char) d1 < 10 && (char) d2 < 10 && (char) d3 < 10 && (char) d4 < 10
+                    && (char) e1 < 10 && (char) e2 < 10 && (after == ' ' || after == '\t' || after == '\r')) {
+                long mantissa = d0 * 10000L + d1 * 1000 + d2 * 100 + d3 * 10 + d4;
+                end[0] = p + 10;
+                if (mantissa == 0) {
+                    return neg ? -0.0 : 0.0;
+                }
+                int k = (es == '-' ? -(e1 * 10 + e2) : e1 * 10 + e2) - 4;
+                if (k >= -22 && k <= 22) {
+                    double m = mantissa;
+                    double v = k < 0 ? m / POW10[-k] : m * POW10[k];
+                    return neg ? -v : v;
+                }
+            }
+        }
         int i = from;
         char c = (char) b[o + i];
         boolean negative = false;

@@ -188,7 +188,7 @@
       } }],
       series: series,
       cursor: { drag: { x: true, y: false } },
-      legend: { live: true }
+      legend: { show: names.length > 1, live: true }
     };
     box.replaceChildren();
     var plot = new uPlot(opts, data, box);
@@ -279,9 +279,13 @@
     tr.appendChild(el('td', 't', String(ev.at || '').replace('T', ' ').replace(/\.\d+Z$/, 'Z')));
     tr.appendChild(el('td', 't', ev.iter));
     var what = ev.type + ' ' + ev.state;
-    var subject = ev.pattern || ev.channel || ev.method || ev.reason || '';
+    var subject = ev.type === 'notice' ? [ev.channel, ev.pattern].filter(Boolean).join(' · ')
+      : ev.type === 'action' ? (ev.method || ev.reason || '')
+      : ev.type === 'run' ? (ev.reason || '') : (ev.pattern || '');
     tr.appendChild(el('td', null, what + (subject ? ' · ' + subject : '')));
     tr.appendChild(el('td', null, ev.summary || ev.error || ''));
+    var quiet = r.events.querySelector('.quiet');
+    if (quiet) quiet.remove();
     r.events.insertBefore(tr, r.events.firstChild);
     while (r.events.children.length > MAX_EVENTS) r.events.removeChild(r.events.lastChild);
   }
@@ -289,6 +293,11 @@
   function loadEvents(r) {
     return getJson('api/events', { run: r.name, max: MAX_EVENTS }).then(function (list) {
       list.forEach(function (ev) { addEvent(r, ev); });
+      if (r.events.children.length === 0) {
+        var tr = el('tr', 'quiet');
+        tr.appendChild(el('td', null, 'nothing on the timeline yet'));
+        r.events.appendChild(tr);
+      }
     });
   }
 
@@ -309,7 +318,15 @@
     var c = u.ctx.canvas;
     var b = u.bbox;
     if (!c.width || !c.height || b.width < 1 || b.height < 1) return 0;
-    var img = u.ctx.getImageData(Math.round(b.left), Math.round(b.top), Math.round(b.width), Math.round(b.height)).data;
+    // read a copy of the plotting area, so the plot's own canvas stays tuned for drawing
+    var w = Math.round(b.width);
+    var h = Math.round(b.height);
+    var copy = document.createElement('canvas');
+    copy.width = w;
+    copy.height = h;
+    var cx = copy.getContext('2d', { willReadFrequently: true });
+    cx.drawImage(c, Math.round(b.left), Math.round(b.top), w, h, 0, 0, w, h);
+    var img = cx.getImageData(0, 0, w, h).data;
     var rgb = COLOURS.map(function (h) {
       return [parseInt(h.substr(1, 2), 16), parseInt(h.substr(3, 2), 16), parseInt(h.substr(5, 2), 16)];
     });

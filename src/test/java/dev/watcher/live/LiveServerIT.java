@@ -21,6 +21,7 @@ import io.vertx.core.MultiMap;
 import io.vertx.core.Vertx;
 import io.vertx.core.buffer.Buffer;
 import io.vertx.core.http.HttpClient;
+import io.vertx.core.http.HttpClientOptions;
 import io.vertx.core.http.HttpClientResponse;
 import io.vertx.core.http.HttpMethod;
 import io.vertx.core.http.RequestOptions;
@@ -48,7 +49,8 @@ class LiveServerIT {
     @BeforeEach
     void setUp() {
         vertx = Vertx.vertx();
-        client = vertx.createHttpClient();
+        // a fresh connection per request: no test depends on a kept-alive connection the server may close
+        client = vertx.createHttpClient(new HttpClientOptions().setKeepAlive(false));
     }
 
     @AfterEach

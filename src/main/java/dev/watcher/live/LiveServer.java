@@ -2,6 +2,7 @@ package dev.watcher.live;
 
 import dev.watcher.model.TimelineEvent;
 import io.micrometer.prometheusmetrics.PrometheusMeterRegistry;
+import io.vertx.core.Context;
 import io.vertx.core.Future;
 import io.vertx.core.Vertx;
 import io.vertx.core.buffer.Buffer;
@@ -77,13 +78,17 @@ public final class LiveServer implements AutoCloseable {
     private final String urlHost;
     private final Map<String, Asset> assets;
     private final String page;
-    private final List<HttpServerResponse> clients = new CopyOnWriteArrayList<>();
+    private final List<Client> clients = new CopyOnWriteArrayList<>();
     private final Map<String, String> lastSent = new HashMap<>();
     private HttpServer server;
     private long tickTimer = -1;
     private long heartbeatTimer = -1;
 
     private record Asset(String contentType, Buffer body) {
+    }
+
+    /** An open event stream and the context of its connection, where every write to it is made in order. */
+    private record Client(HttpServerResponse response, Context context) {
     }
 
     private LiveServer(Vertx vertx, String host, LiveSource source, PrometheusMeterRegistry registry,
@@ -345,10 +350,12 @@ public final class LiveServer implements AutoCloseable {
         for (RunStatus s : runs) {
             all.add(LiveJson.status(s));
         }
+        // written on the connection's context before the client is listed: later pushes are queued behind it
         r.write("retry: 3000\n\n" + sse("hello", all));
-        clients.add(r);
-        r.closeHandler(v -> clients.remove(r));
-        r.exceptionHandler(t -> clients.remove(r));
+        Client c = new Client(r, vertx.getOrCreateContext());
+        clients.add(c);
+        r.closeHandler(v -> clients.remove(c));
+        r.exceptionHandler(t -> clients.remove(c));
     }
 
     private void json(RoutingContext ctx, Object value) {
@@ -394,14 +401,17 @@ public final class LiveServer implements AutoCloseable {
     }
 
     private void broadcast(String chunk) {
-        for (HttpServerResponse r : clients) {
-            if (r.writeQueueFull()) {
-                // a page that does not keep up is dropped; it reconnects and reloads its plots
-                clients.remove(r);
-                r.reset();
-                continue;
-            }
-            r.write(chunk).onFailure(t -> clients.remove(r));
+        for (Client c : clients) {
+            c.context().runOnContext(v -> {
+                HttpServerResponse r = c.response();
+                if (r.writeQueueFull()) {
+                    // a page that does not keep up is dropped; it reconnects and reloads its plots
+                    clients.remove(c);
+                    r.reset();
+                    return;
+                }
+                r.write(chunk).onFailure(t -> clients.remove(c));
+            });
         }
     }
 
@@ -411,8 +421,8 @@ public final class LiveServer implements AutoCloseable {
     public Future<Void> stop() {
         vertx.cancelTimer(tickTimer);
         vertx.cancelTimer(heartbeatTimer);
-        for (HttpServerResponse r : clients) {
-            r.end();
+        for (Client c : clients) {
+            c.context().runOnContext(v -> c.response().end());
         }
         clients.clear();
         return server == null ? Future.succeededFuture() : server.close();

@@ -44,7 +44,7 @@ final class ReplayCommand implements Callable<Integer> {
         Assembly.checkParameters(rules, runs, o.overrides);
         DaemonConfig c = new DaemonConfig(runs, rules, o.overrides,
                 Assembly.quickChannels(holder.channels), Assembly.stateDir(o, runs, ".replay"), o.timeline, false,
-                Map.of(), false, null, null, notify, null, null, null, null, System.out, o.quiet, null);
+                Map.of(), false, null, null, null, notify, null, null, null, null, System.out, o.quiet, null);
         try {
             return Replay.run(c);
         } catch (StateDir.LockedException e) {

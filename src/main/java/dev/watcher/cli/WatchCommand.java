@@ -69,6 +69,10 @@ final class WatchCommand implements Callable<Integer> {
             + " by default; HOST:0 picks a free port).")
     String http;
 
+    @Option(names = "--http-token-file", paramLabel = "FILE", description = "The live view's access token, read"
+            + " from a file (or set WATCHER_HTTP_TOKEN); required when --http binds a non-loopback address.")
+    java.nio.file.Path httpTokenFile;
+
     @Option(names = "--poll-ms", paramLabel = "MS", description = "Poll interval while a file grows (default 500);"
             + " idle files are polled less often, up to --idle-poll-ms.")
     long pollMs = 500;
@@ -111,7 +115,7 @@ final class WatchCommand implements Callable<Integer> {
         Assembly.checkParameters(rules, runs, o.overrides);
         DaemonConfig c = new DaemonConfig(runs, rules, o.overrides,
                 Assembly.quickChannels(holder.channels), Assembly.stateDir(o, runs, ".watcher"), o.timeline, fromEnd,
-                jobMap, stop, stopPolicy(), http, false, Duration.ofMillis(pollMs), Duration.ofMillis(idlePollMs),
+                jobMap, stop, stopPolicy(), http, httpToken(), false, Duration.ofMillis(pollMs), Duration.ofMillis(idlePollMs),
                 Duration.ofSeconds(silenceMin), null, System.out, o.quiet, null);
         Daemon d = new Daemon(c);
         Signals.onTermOrInt(() -> d.shutdown("watcher stopped by a signal"));
@@ -120,6 +124,14 @@ final class WatchCommand implements Callable<Integer> {
         } catch (StateDir.LockedException e) {
             throw new Main.UserError(e.getMessage(), e);
         }
+    }
+
+    private String httpToken() {
+        if (httpTokenFile != null) {
+            return Assembly.read(httpTokenFile, "token").strip();
+        }
+        String env = System.getenv("WATCHER_HTTP_TOKEN");
+        return env == null || env.isBlank() ? null : env.strip();
     }
 
     private StopPolicy stopPolicy() {

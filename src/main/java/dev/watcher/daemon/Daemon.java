@@ -3,6 +3,10 @@ package dev.watcher.daemon;
 import dev.watcher.detect.Detector;
 import dev.watcher.journal.Journal;
 import dev.watcher.journal.StateDir;
+import dev.watcher.live.LiveServer;
+import dev.watcher.live.WatcherMetrics;
+import io.micrometer.prometheusmetrics.PrometheusConfig;
+import io.micrometer.prometheusmetrics.PrometheusMeterRegistry;
 import dev.watcher.model.ChannelSpec;
 import dev.watcher.model.Malformed;
 import dev.watcher.model.Notice;
@@ -86,10 +90,29 @@ public final class Daemon {
             await(dispatcher.start(), 30);
         }
         Jobs jobs = Jobs.attach(config, journal);
+        LiveBridge bridge = null;
+        LiveServer live = null;
+        if (config.http() != null) {
+            PrometheusMeterRegistry registry = new PrometheusMeterRegistry(PrometheusConfig.DEFAULT);
+            WatcherMetrics.commonTags(registry, hostName());
+            bridge = new LiveBridge(config.runs());
+            try {
+                live = LiveServer.start(vertx, config.http(), bridge, registry, config.httpToken())
+                        .await(30, TimeUnit.SECONDS);
+            } catch (TimeoutException | RuntimeException e) {
+                throw new IllegalArgumentException("--http " + config.http() + ": " + e.getMessage(), e);
+            }
+            journal.addListener(bridge::onEvent);
+            journal.addListener(live::onEvent);
+            if (!config.quiet()) {
+                config.out().println("live view: " + live.url() + " (metrics: " + live.url() + "metrics)");
+            }
+        }
         Consumer<Notice> notices = dispatcher == null ? n -> { } : dispatcher::submit;
         for (RunSpec spec : config.runs()) {
             WatchedRun.StopHook hook = jobs.hookFor(spec.name());
-            WatchedRun r = new WatchedRun(spec, config, state, journal, notices, hook, List.of());
+            WatchedRun r = new WatchedRun(spec, config, state, journal, notices, hook, List.of(), bridge,
+                    live == null ? null : live.url());
             runs.add(r);
             await(vertx.deployVerticle(r, new DeploymentOptions().setThreadingModel(ThreadingModel.WORKER)), 30);
         }
@@ -118,10 +141,21 @@ public final class Daemon {
             dispatcher.close();
         }
         jobs.close();
+        if (live != null) {
+            live.close();
+        }
         if (!config.quiet()) {
             config.out().println("ended (" + reason + "); timeline: " + journal.file().toAbsolutePath());
         }
         return 0;
+    }
+
+    private static String hostName() {
+        try {
+            return java.net.InetAddress.getLocalHost().getHostName();
+        } catch (IOException e) {
+            return "localhost";
+        }
     }
 
     List<WatchedRun> runs() {

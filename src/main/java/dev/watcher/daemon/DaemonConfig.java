@@ -19,6 +19,7 @@ import java.util.Map;
  * @param stop       whether the rules' stop actions may act ({@code --stop})
  * @param stopPolicy how a stop is carried out (signal, grace, stop file, command); null for the defaults
  * @param http       {@code HOST:PORT} for the live view and metrics, or null
+ * @param httpToken  the live view's access token (required off loopback), or null
  * @param sendNotices replay only: send notifications
  * @param pollMin    the follower's poll interval while a file grows
  * @param pollMax    the longest poll interval while a file is idle
@@ -27,7 +28,7 @@ import java.util.Map;
  */
 public record DaemonConfig(List<RunSpec> runs, RuleSet rules, Map<String, String> overrides,
         List<ChannelSpec> quick, Path stateDir, Path timeline, boolean fromEnd, Map<String, String> jobs, boolean stop, dev.watcher.act.StopPolicy stopPolicy,
-        String http, boolean sendNotices, Duration pollMin, Duration pollMax, Duration silenceMin,
+        String http, String httpToken, boolean sendNotices, Duration pollMin, Duration pollMax, Duration silenceMin,
         Duration drainBound, PrintStream out, boolean quiet, Clock clock) {
 
     public DaemonConfig {

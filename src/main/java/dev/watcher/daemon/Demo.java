@@ -70,7 +70,7 @@ public final class Demo {
             }
             Path state = outDir.resolve("state");
             DaemonConfig c = new DaemonConfig(runs, rules, Map.of("log-silent.min_seconds", "60"), List.of(), state,
-                    null, false, jobs, true, dev.watcher.act.StopPolicy.defaults().withGrace(Duration.ofSeconds(5)), http, false, Duration.ofMillis(200), Duration.ofMillis(1000),
+                    null, false, jobs, true, dev.watcher.act.StopPolicy.defaults().withGrace(Duration.ofSeconds(5)), http, null, false, Duration.ofMillis(200), Duration.ofMillis(1000),
                     Duration.ofSeconds(60), Duration.ofSeconds(5), out, false, null);
             Daemon d = new Daemon(c).endWhenJobsEnd(!keepOpen);
             onDaemon.accept(d);

@@ -66,6 +66,8 @@ final class WatchedRun extends VerticleBase {
     private long timerId = -1;
     private Instant lastSave = Instant.EPOCH;
     private long savedRecords = -1;
+    private final LiveBridge live;
+    private final String liveUrl;
 
     /** What the run tells the action stage. Called on the run's thread. */
     interface StopHook {
@@ -82,7 +84,9 @@ final class WatchedRun extends VerticleBase {
     }
 
     WatchedRun(RunSpec spec, DaemonConfig config, StateDir state, Journal journal, Consumer<Notice> notices,
-            StopHook stops, List<Consumer<IterationRecord>> recordListeners) {
+            StopHook stops, List<Consumer<IterationRecord>> recordListeners, LiveBridge live, String liveUrl) {
+        this.live = live;
+        this.liveUrl = liveUrl;
         this.spec = spec;
         this.config = config;
         this.state = state;
@@ -123,9 +127,10 @@ final class WatchedRun extends VerticleBase {
         for (Path p : spec.sources()) {
             followers.add(new FileFollower(p, null, opts));
         }
+        String view = liveUrl == null ? "" : "; live view at " + liveUrl;
         String why = resumed ? (sameFiles ? "resumed: re-reading the log; events already in the timeline are not repeated"
                 : "resumed: the log is a new file; reading it from the start") : "watching " + Replay.describe(spec.sources());
-        journal.append(PendingEvent.run(run, 0, resumed ? "resumed" : "started", why));
+        journal.append(PendingEvent.run(run, 0, resumed ? "resumed" : "started", why + view));
         if (config.fromEnd()) {
             for (FileFollower f : followers) {
                 f.poll((line, lineNo) -> { }); // skip the history: read to the end, drop the lines
@@ -196,6 +201,7 @@ final class WatchedRun extends VerticleBase {
             quiet.ifPresent(pipeline::external);
             pipeline.tick();
             maybeSave(false);
+            publish();
             for (FileFollower f : followers) {
                 Duration d = f.nextDelay();
                 next = d.compareTo(next) < 0 ? d : next;
@@ -306,11 +312,75 @@ final class WatchedRun extends VerticleBase {
             s.put("last_iter", pipeline.lastIter());
             s.put("caught_up", caughtUp);
             s.put("counters", pipeline.counters().toMap());
-            s.put("snapshot", Daemon.snapshot(pipeline));
+            Map<String, Object> snap = Daemon.snapshot(pipeline);
+            s.put("snapshot", snap);
+            Map<String, Object> wall = wallForecast(snap, now, recs);
+            if (!wall.isEmpty()) {
+                s.put("wall_forecast", wall);
+            }
             state.saveRun(spec.name(), s);
             history.save();
+            if (live != null) {
+                live.publish(history);
+            }
         } catch (IOException e) {
             LOG.warn("{}: cannot save the run state: {}", spec.name(), e.toString());
+        }
+    }
+
+    // iteration rate over the last minute or so, for wall-time forecasts (live runs only)
+    private Instant rateSince;
+    private long rateRecords;
+    private double rate = Double.NaN;
+
+    /**
+     * Turns the convergence forecasts (in iterations) into wall time with the iteration rate observed since
+     * the run caught up: {@code iterations_per_second} and per equation {@code seconds} with its range.
+     */
+    @SuppressWarnings("unchecked")
+    private Map<String, Object> wallForecast(Map<String, Object> snap, Instant now, long recs) {
+        if (!caughtUp) {
+            return Map.of();
+        }
+        if (rateSince == null) {
+            rateSince = now;
+            rateRecords = recs;
+            return Map.of();
+        }
+        double secs = Duration.between(rateSince, now).toMillis() / 1000.0;
+        if (secs >= 5 && recs > rateRecords) {
+            rate = (recs - rateRecords) / secs;
+            if (secs > 120) { // keep the rate recent: restart the window
+                rateSince = now;
+                rateRecords = recs;
+            }
+        }
+        Object conv = snap.get("ConvergedDetector");
+        if (Double.isNaN(rate) || !(conv instanceof Map<?, ?> c) || !(c.get("equations") instanceof Map<?, ?> eqs)) {
+            return Map.of();
+        }
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("iterations_per_second", Math.round(rate * 1000) / 1000.0);
+        Map<String, Object> per = new LinkedHashMap<>();
+        for (Map.Entry<?, ?> e : eqs.entrySet()) {
+            if (e.getValue() instanceof Map<?, ?> f && "converging".equals(f.get("forecast"))) {
+                Map<String, Object> w = new LinkedHashMap<>();
+                for (String k : new String[] {"iterations", "iterations_low", "iterations_high"}) {
+                    if (f.get(k) instanceof Number n && Double.isFinite(n.doubleValue())) {
+                        w.put(k.replace("iterations", "seconds"), Math.round(n.doubleValue() / rate));
+                    }
+                }
+                per.put(e.getKey().toString(), w);
+            }
+        }
+        out.put("equations", per);
+        return out;
+    }
+
+    private void publish() {
+        if (live != null) {
+            live.publish(LiveBridge.statusOf(pipeline, stopped ? dev.watcher.live.RunStatus.ENDED
+                    : caughtUp ? dev.watcher.live.RunStatus.FOLLOWING : dev.watcher.live.RunStatus.CATCHING_UP));
         }
     }
 
@@ -332,6 +402,7 @@ final class WatchedRun extends VerticleBase {
         }
         journal.append(PendingEvent.run(spec.name(), pipeline.lastIter(), "ended", reason));
         maybeSave(true);
+        publish();
     }
 
     /** Ends the run on its own context (no poll runs concurrently); completes when the final state is saved. */

@@ -30,7 +30,8 @@ import org.junit.jupiter.api.io.TempDir;
 /**
  * The daemon live, in one process: a log appended by another thread (records split across writes), a
  * NaN that reaches a real HTTP receiver as a notice through the quick webhook channel, and the silence
- * watchdog opening when the writer pauses and resolving when lines come back.
+ * watchdog opening when the writer pauses and resolving when lines come back; the live view and metrics of
+ * the same daemon show the run.
  */
 class WatchLiveIT {
 
@@ -73,7 +74,7 @@ class WatchLiveIT {
                 List.of(new RunSpec("fan", List.of(log), List.of(Formats.builtIn("jsonl")))), rules, Map.of(),
                 List.of(new WebhookSpec("quick-webhook", SecretRef.ofLiteral(url), null, "native",
                         Duration.ofSeconds(5), 5, Duration.ofSeconds(1))),
-                state, null, false, Map.of(), false, null, null, false, Duration.ofMillis(50), Duration.ofMillis(200),
+                state, null, false, Map.of(), false, null, "127.0.0.1:0", null, false, Duration.ofMillis(50), Duration.ofMillis(200),
                 Duration.ofSeconds(1), Duration.ofSeconds(5), new PrintStream(java.io.OutputStream.nullOutputStream()),
                 true, null);
         Daemon daemon = new Daemon(c);
@@ -107,6 +108,17 @@ class WatchLiveIT {
                     .asText().equals("notice") && e.get("state").asText().equals("sent")));
             List<JsonNode> events = timeline(tl);
             TimelineContract.check(events);
+            // the live view and metrics of the same daemon: its URL is in the run's first event
+            String started = events.get(0).get("reason").asText();
+            String base = started.substring(started.indexOf("live view at ") + "live view at ".length()).strip();
+            java.net.http.HttpClient http = java.net.http.HttpClient.newHttpClient();
+            String runs = http.send(java.net.http.HttpRequest.newBuilder(java.net.URI.create(base + "api/runs")).build(),
+                    java.net.http.HttpResponse.BodyHandlers.ofString()).body();
+            assertTrue(runs.contains("\"fan\"") && runs.contains("non-finite"), runs);
+            String metrics = http.send(java.net.http.HttpRequest.newBuilder(java.net.URI.create(base + "metrics"))
+                    .build(), java.net.http.HttpResponse.BodyHandlers.ofString()).body();
+            assertTrue(metrics.lines().anyMatch(l -> l.startsWith("watcher_") && l.contains("run=\"fan\"")),
+                    metrics);
             assertEquals(41, events.stream().filter(e -> e.get("type").asText().equals("detection"))
                     .filter(e -> e.get("pattern").asText().equals("non-finite")).findFirst().orElseThrow()
                     .get("iter").asLong());

@@ -13,4 +13,11 @@ if [ "$(id -u)" -ne 0 ]; then
 fi
 export DEBIAN_FRONTEND=noninteractive
 apt-get update -qq
+# keep the package from starting its own service: the test starts prometheus itself, on loopback
+policy=/usr/sbin/policy-rc.d
+own_policy=0
+if [ ! -e "$policy" ]; then
+    printf '#!/bin/sh\nexit 101\n' > "$policy"; chmod 755 "$policy"; own_policy=1
+fi
 apt-get install -y -qq --no-install-recommends prometheus
+[ "$own_policy" -eq 1 ] && rm -f "$policy"

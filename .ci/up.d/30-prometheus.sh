@@ -20,4 +20,4 @@ if [ ! -e "$policy" ]; then
     printf '#!/bin/sh\nexit 101\n' > "$policy"; chmod 755 "$policy"; own_policy=1
 fi
 apt-get install -y -qq --no-install-recommends prometheus
-[ "$own_policy" -eq 1 ] && rm -f "$policy"
+if [ "$own_policy" -eq 1 ]; then rm -f "$policy"; fi

@@ -216,21 +216,13 @@ final class Assembly {
                 }
                 pw = SecretRef.ofFile(c.smtpPasswordFile.toString());
             }
-            String from = c.mailFrom != null ? c.mailFrom : "watcher@" + hostName();
+            String from = c.mailFrom != null ? c.mailFrom : "watcher@" + dev.watcher.daemon.Daemon.hostName();
             out.add(new MailSpec("quick-mail", host, port, c.starttls, c.smtpUser, pw, from, c.mailTo,
                     Duration.ofSeconds(30), 8));
         } else if (c.smtp != null) {
             throw new Main.UserError("--smtp needs --mail-to ADDR");
         }
         return out;
-    }
-
-    static String hostName() {
-        try {
-            return java.net.InetAddress.getLocalHost().getHostName();
-        } catch (IOException e) {
-            return "localhost";
-        }
     }
 
     /**

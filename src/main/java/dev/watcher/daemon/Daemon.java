@@ -150,7 +150,8 @@ public final class Daemon {
         return 0;
     }
 
-    private static String hostName() {
+    /** This machine's host name (for metric tags and a default mail sender), or {@code localhost}. */
+    public static String hostName() {
         try {
             return java.net.InetAddress.getLocalHost().getHostName();
         } catch (IOException e) {

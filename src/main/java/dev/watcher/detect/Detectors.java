@@ -15,11 +15,12 @@ public final class Detectors {
     /** A fresh set of detectors for one run, reading their parameters from {@code settings}. */
     public static List<Detector> standard(DetectSettings settings) {
         List<Detector> all = new ArrayList<>();
+        ResidualLogs logs = new ResidualLogs(); // log10 of each record's residuals, computed once per record
         // one line per detector, e.g. all.add(new NonFiniteDetector(settings));
         all.add(new NonFiniteDetector(settings));
         all.add(new ResidualLevelDetector(settings));
-        all.add(new SingleEquationBlowupDetector(settings));
-        all.add(new FamilyDivergenceDetector(settings));
+        all.add(new SingleEquationBlowupDetector(settings, logs));
+        all.add(new FamilyDivergenceDetector(settings, logs));
         all.add(new StalledOscillationDetector(settings));
         all.add(new RisingPeaksDetector(settings));
         all.add(new InnerStallDetector(settings));

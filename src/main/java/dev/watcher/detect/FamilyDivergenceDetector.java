@@ -71,8 +71,14 @@ final class FamilyDivergenceDetector implements Detector {
     private final double[] xs;
     private final double[] ys;
     private long records;
+    private final ResidualLogs logs;
 
     FamilyDivergenceDetector(DetectSettings s) {
+        this(s, new ResidualLogs());
+    }
+
+    FamilyDivergenceDetector(DetectSettings s, ResidualLogs logs) {
+        this.logs = logs;
         window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
         minRise = s.number(P + "min_rise", 0.5);
         minSlope = s.number(P + "min_slope", 0.002);
@@ -87,7 +93,8 @@ final class FamilyDivergenceDetector implements Detector {
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();
-        eqs = new PerName<>(n -> new RiseTracker(n, window, baselineWindow, warmup, cusumK, cusumH, minScale, riseNoise));
+        eqs = new PerName<>(n -> new RiseTracker(logs.rises.of(n, window, warmup, cusumK, cusumH, minScale),
+                baselineWindow, riseNoise));
         xs = new double[window];
         ys = new double[window];
     }
@@ -113,16 +120,18 @@ final class FamilyDivergenceDetector implements Detector {
             familiesFor = res.names();
             families = EquationFamilies.of(res.names(), declared, minFamilySize);
         }
-        double[] v = res.values();
+        int n = res.size();
+        double[] ys = logs.of(res);
+        long stamp = logs.stamp();
         List<RiseTracker> slots = eqs.slots(res.names());
         boolean anyCandidate = false;
-        for (int i = 0; i < v.length; i++) {
-            double y = Log10.of(v[i]);
+        for (int i = 0; i < n; i++) {
+            double y = ys[i];
             if (Double.isNaN(y)) {
                 continue;
             }
             RiseTracker t = slots.get(i);
-            t.add(r.iter(), y);
+            t.add(stamp, r.iter(), y);
             anyCandidate |= t.candidate(minRise);
         }
         if (anyCandidate) {
@@ -155,7 +164,7 @@ final class FamilyDivergenceDetector implements Detector {
             for (int i = 0; i < p.length; i++) {
                 p[i] = 1;
                 RiseTracker t = eqs.get(members.get(i));
-                if (t == null || !t.warm() || t.rise() < t.required(minRise) / 2 || t.last < floor) {
+                if (t == null || !t.warm() || t.rise() < t.required(minRise) / 2 || t.last() < floor) {
                     continue;
                 }
                 RiseTracker.Late late = t.late(xs, ys);
@@ -250,7 +259,7 @@ final class FamilyDivergenceDetector implements Detector {
                 if (t == null || !t.warm()) {
                     continue;
                 }
-                if (t.smooth <= o.from[i] + minRise / 2) {
+                if (t.smooth() <= o.from[i] + minRise / 2) {
                     back++;
                 } else if (o.segmentSince && records % evalEvery == 0) {
                     falling += t.window(xs, ys).high() < 0 ? 1 : 0;

@@ -23,7 +23,13 @@ import dev.watcher.detect.stats.TheilSen;
  *     split at the minimum), at most {@code window} values.</li>
  * </ul>
  * The first {@code warmup} records of a segment set no baseline, so start-up transients and the jump after a
- * restart are not taken for a rise. Not thread-safe.
+ * restart are not taken for a rise.
+ *
+ * <p>The per-record part that does not depend on the baseline window (the CUSUM, the smoothings, the noise
+ * scale and the windows of values) lives in a {@link Core} that the blow-up and family detectors of one run
+ * share when their parameters agree ({@link Cores}): each record is added to a core once, whichever detector
+ * comes first, so the two detectors cost little more than one. Each detector keeps its own baseline
+ * minimum and evaluation clock. Not thread-safe: one run's thread.
  */
 final class RiseTracker {
     private static final double SMOOTH = 0.3;
@@ -40,92 +46,95 @@ final class RiseTracker {
 
     final String name;
     final String family;
-    private final int warmup;
-    private final double minScale;
+    private final Core core;
     private final double riseNoise;
-    private final RollingWindow iters;
-    private final RollingWindow logs;
-    private final Cusum cusum;
     // sliding-window minimum of the smoothed level (monotonic deque of values and record counts)
     private final int baselineWindow;
     private final double[] dqVal;
     private final long[] dqAt;
     private int dqHead;
     private int dqSize;
-    long count;
-    double last = Double.NaN;
-    double smooth;
-    private double holtLevel;
-    private double holtTrend;
-    private double wander;
-    private double scale;
-    private double lastD;
-    /** Lowest raw value since the segment's warm-up (evidence only). */
-    double minRaw = Double.POSITIVE_INFINITY;
+    /** The core's count when this tracker last saw a value (a core shared with another detector). */
+    private long seen;
     long lastEval = Long.MIN_VALUE / 2;
 
+    /** A tracker with a core of its own. */
     RiseTracker(String name, int window, int baselineWindow, int warmup, double cusumK, double cusumH,
             double minScale, double riseNoise) {
-        this.name = name;
+        this(new Core(name, window, warmup, cusumK, cusumH, minScale), baselineWindow, riseNoise);
+    }
+
+    /** A tracker on a core that other trackers of the run may share. */
+    RiseTracker(Core core, int baselineWindow, double riseNoise) {
+        this.core = core;
+        this.name = core.name;
         this.family = EquationFamilies.familyOf(name);
-        this.warmup = warmup;
-        this.minScale = minScale;
         this.riseNoise = riseNoise;
-        this.baselineWindow = Math.max(window, baselineWindow);
-        iters = new RollingWindow(window);
-        logs = new RollingWindow(window);
-        cusum = new Cusum(cusumK, cusumH, 0);
+        this.baselineWindow = Math.max(core.logs.capacity(), baselineWindow);
         dqVal = new double[this.baselineWindow + 1];
         dqAt = new long[this.baselineWindow + 1];
     }
 
-    void add(long iter, double y) {
-        count++;
-        if (count == 1) {
-            smooth = y;
-            holtLevel = y;
-            holtTrend = 0;
-        } else {
-            double d = y - last;
-            cusum.add(d / Math.max(scale, minScale));
-            if (count >= 3) {
-                double dd = SECOND_TO_FIRST * Math.abs(d - lastD);
-                scale = count == 3 ? dd : scale + SCALE_WEIGHT * (dd - scale);
-            }
-            lastD = d;
-            smooth += SMOOTH * (y - smooth);
-            // Holt's linear smoothing follows a steady trend without lag, so the deviation from its forecast
-            // measures how the level wanders, not how fast it converges. The wandering is learnt after the
-            // warm-up (not from the start-up transient) and frozen while a rise is under way, so the rise
-            // does not raise its own bar.
-            double forecast = holtLevel + holtTrend;
-            if (count > warmup && !cusum.signalled()) {
-                wander += SCALE_WEIGHT * (Math.abs(y - forecast) - wander);
-            }
-            double level = forecast + HOLT_LEVEL * (y - forecast);
-            holtTrend += HOLT_TREND * (level - holtLevel - holtTrend);
-            holtLevel = level;
+    /**
+     * Adds the value of record {@code stamp} (a number that grows by one or more per record, the same for
+     * every detector of the run); a record already added to a shared core is not added again.
+     */
+    void add(long stamp, long iter, double y) {
+        core.add(stamp, iter, y);
+        long count = core.count;
+        if (count == seen) {
+            return;
         }
-        last = y;
-        iters.add(iter);
-        logs.add(y);
-        if (count > warmup) {
-            minRaw = Math.min(minRaw, y);
-            while (dqSize > 0 && dqVal[(dqHead + dqSize - 1) % dqVal.length] >= smooth) {
+        seen = count;
+        if (count > core.warmup) {
+            // monotonic deque: drop the newer entries not below the new level, append it, expire the oldest
+            double smooth = core.smooth;
+            int cap = dqVal.length;
+            while (dqSize > 0 && dqVal[wrap(dqHead + dqSize - 1, cap)] >= smooth) {
                 dqSize--;
             }
-            dqVal[(dqHead + dqSize) % dqVal.length] = smooth;
-            dqAt[(dqHead + dqSize) % dqVal.length] = count;
+            int at = wrap(dqHead + dqSize, cap);
+            dqVal[at] = smooth;
+            dqAt[at] = count;
             dqSize++;
             while (dqAt[dqHead] <= count - baselineWindow) {
-                dqHead = (dqHead + 1) % dqVal.length;
+                dqHead = wrap(dqHead + 1, cap);
                 dqSize--;
             }
         }
     }
 
+    /** Adds a value with a core of its own (tests, single detectors): every call is a new record. */
+    void add(long iter, double y) {
+        add(core.stamp + 1, iter, y);
+    }
+
+    /** i mod cap for 0 <= i < 2 cap, without a division. */
+    private static int wrap(int i, int cap) {
+        return i >= cap ? i - cap : i;
+    }
+
+    long count() {
+        return core.count;
+    }
+
+    /** The newest value. */
+    double last() {
+        return core.last;
+    }
+
+    /** The exponentially smoothed level. */
+    double smooth() {
+        return core.smooth;
+    }
+
+    /** Lowest raw value since the segment's warm-up (evidence only). */
+    double minRaw() {
+        return core.minRaw;
+    }
+
     boolean warm() {
-        return count > warmup && dqSize > 0;
+        return core.count > core.warmup && dqSize > 0;
     }
 
     /** The baseline: the lowest smoothed level over the last baselineWindow records (+infinity before). */
@@ -134,23 +143,23 @@ final class RiseTracker {
     }
 
     private long minAt() {
-        return dqSize == 0 ? count : dqAt[dqHead];
+        return dqSize == 0 ? core.count : dqAt[dqHead];
     }
 
     double rise() {
-        return smooth - minSmooth();
+        return core.smooth - minSmooth();
     }
 
     double cusum() {
-        return cusum.value();
+        return core.cusum.value();
     }
 
     boolean cusumSignalled() {
-        return cusum.signalled();
+        return core.cusum.signalled();
     }
 
     boolean candidate(double minRise) {
-        return count > warmup && cusum.signalled() && rise() >= required(minRise);
+        return core.count > core.warmup && core.cusum.signalled() && rise() >= required(minRise);
     }
 
     /**
@@ -159,13 +168,13 @@ final class RiseTracker {
      * on noisy ones.
      */
     double required(double minRise) {
-        return minRise + riseNoise * 1.2533 * wander;
+        return minRise + riseNoise * 1.2533 * core.wander;
     }
 
     /** How far the raw values fell within the window before the baseline minimum (0 when they did not). */
     double fall(double[] ys) {
-        int n = logs.copyTo(ys);
-        int since = (int) Math.min(n, count - minAt() + 1);
+        int n = core.logs.copyTo(ys);
+        int since = (int) Math.min(n, core.count - minAt() + 1);
         double max = Double.NEGATIVE_INFINITY;
         for (int i = 0; i < n - since; i++) {
             max = Math.max(max, ys[i]);
@@ -175,9 +184,9 @@ final class RiseTracker {
 
     /** The late phase: values since the baseline minimum (at most the window); null when fewer than MIN_LATE. */
     Late late(double[] xs, double[] ys) {
-        int n = iters.copyTo(xs);
-        logs.copyTo(ys);
-        int since = (int) Math.min(n, count - minAt() + 1);
+        int n = core.iters.copyTo(xs);
+        core.logs.copyTo(ys);
+        int since = (int) Math.min(n, core.count - minAt() + 1);
         if (since < MIN_LATE) {
             return null;
         }
@@ -191,29 +200,125 @@ final class RiseTracker {
 
     /** The Theil–Sen fit of the whole window (for resolution after a restart). */
     TheilSen window(double[] xs, double[] ys) {
-        int n = iters.copyTo(xs);
-        logs.copyTo(ys);
+        int n = core.iters.copyTo(xs);
+        core.logs.copyTo(ys);
         return TheilSen.fit(xs, ys, n, 0.95);
     }
 
     int size() {
-        return logs.size();
+        return core.logs.size();
     }
 
     record Late(TheilSen fit, MannKendall trend) {
     }
 
+    /**
+     * A new segment: the core and this tracker's baseline start again. Every detector sharing the core
+     * calls this between the same two records; resetting an already reset core changes nothing.
+     */
     void reset() {
-        iters.clear();
-        logs.clear();
-        cusum.reset();
-        count = 0;
-        scale = 0;
-        lastD = 0;
-        wander = 0;
+        core.reset();
+        seen = 0;
         dqHead = 0;
         dqSize = 0;
-        minRaw = Double.POSITIVE_INFINITY;
         lastEval = Long.MIN_VALUE / 2;
+    }
+
+    /**
+     * The per-record state of one equation that does not depend on the baseline window. Mutable; added to
+     * at most once per record ({@code stamp}); one run's thread.
+     */
+    static final class Core {
+        final String name;
+        final int warmup;
+        private final double minScale;
+        private final RollingWindow iters;
+        private final RollingWindow logs;
+        private final Cusum cusum;
+        private long stamp = Long.MIN_VALUE;
+        long count;
+        double last = Double.NaN;
+        double smooth;
+        private double holtLevel;
+        private double holtTrend;
+        private double wander;
+        private double scale;
+        private double lastD;
+        double minRaw = Double.POSITIVE_INFINITY;
+
+        Core(String name, int window, int warmup, double cusumK, double cusumH, double minScale) {
+            this.name = name;
+            this.warmup = warmup;
+            this.minScale = minScale;
+            iters = new RollingWindow(window);
+            logs = new RollingWindow(window);
+            cusum = new Cusum(cusumK, cusumH, 0);
+        }
+
+        void add(long at, long iter, double y) {
+            if (at == stamp) {
+                return;
+            }
+            stamp = at;
+            count++;
+            if (count == 1) {
+                smooth = y;
+                holtLevel = y;
+                holtTrend = 0;
+            } else {
+                double d = y - last;
+                cusum.add(d / Math.max(scale, minScale));
+                if (count >= 3) {
+                    double dd = SECOND_TO_FIRST * Math.abs(d - lastD);
+                    scale = count == 3 ? dd : scale + SCALE_WEIGHT * (dd - scale);
+                }
+                lastD = d;
+                smooth += SMOOTH * (y - smooth);
+                // Holt's linear smoothing follows a steady trend without lag, so the deviation from its
+                // forecast measures how the level wanders, not how fast it converges. The wandering is learnt
+                // after the warm-up (not from the start-up transient) and frozen while a rise is under way, so
+                // the rise does not raise its own bar.
+                double forecast = holtLevel + holtTrend;
+                if (count > warmup && !cusum.signalled()) {
+                    wander += SCALE_WEIGHT * (Math.abs(y - forecast) - wander);
+                }
+                double level = forecast + HOLT_LEVEL * (y - forecast);
+                holtTrend += HOLT_TREND * (level - holtLevel - holtTrend);
+                holtLevel = level;
+            }
+            last = y;
+            iters.add(iter);
+            logs.add(y);
+            if (count > warmup) {
+                minRaw = Math.min(minRaw, y);
+            }
+        }
+
+        /** Starts a new segment (idempotent until the next value). */
+        void reset() {
+            iters.clear();
+            logs.clear();
+            cusum.reset();
+            count = 0;
+            scale = 0;
+            lastD = 0;
+            wander = 0;
+            minRaw = Double.POSITIVE_INFINITY;
+        }
+    }
+
+    /**
+     * The cores of one run, shared by the detectors whose core parameters agree (window, warm-up, CUSUM
+     * k and h, noise floor); different parameters get different cores. One run's thread.
+     */
+    static final class Cores {
+        private final java.util.Map<java.util.List<Object>, java.util.Map<String, Core>> byParams =
+                new java.util.HashMap<>();
+
+        Core of(String name, int window, int warmup, double cusumK, double cusumH, double minScale) {
+            return byParams.computeIfAbsent(java.util.List.of(window, warmup, cusumK, cusumH, minScale),
+                    k -> new java.util.HashMap<>()).computeIfAbsent(name,
+                            n -> new Core(n, window, warmup, cusumK, cusumH, minScale));
+        }
     }
 }

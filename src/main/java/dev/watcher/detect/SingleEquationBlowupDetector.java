@@ -63,8 +63,14 @@ final class SingleEquationBlowupDetector implements Detector {
     private final PerName<Eq> eqs;
     private final double[] xs;
     private final double[] ys;
+    private final ResidualLogs logs;
 
     SingleEquationBlowupDetector(DetectSettings s) {
+        this(s, new ResidualLogs());
+    }
+
+    SingleEquationBlowupDetector(DetectSettings s, ResidualLogs logs) {
+        this.logs = logs;
         window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
         minSlope = s.number(P + "min_slope", 0.003);
         minRise = s.number(P + "min_rise", 0.5);
@@ -77,7 +83,7 @@ final class SingleEquationBlowupDetector implements Detector {
         baselineWindow = Math.max(window, s.integer(P + "baseline_window", 300));
         evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         othersRisingFraction = s.number(P + "others_rising_fraction", 0.25);
-        eqs = new PerName<>(Eq::new);
+        eqs = new PerName<>(n -> new Eq(logs.rises.of(n, window, warmup, cusumK, cusumH, minScale)));
         xs = new double[window];
         ys = new double[window];
     }
@@ -88,32 +94,33 @@ final class SingleEquationBlowupDetector implements Detector {
         boolean segmentSinceOpen;
         double openFrom;
 
-        Eq(String name) {
-            t = new RiseTracker(name, window, baselineWindow, warmup, cusumK, cusumH, minScale, riseNoise);
+        Eq(RiseTracker.Core core) {
+            t = new RiseTracker(core, baselineWindow, riseNoise);
         }
     }
 
     @Override
     public void observe(IterationRecord r, Consumer<Detection> out) {
         Samples res = r.residuals();
-        double[] v = res.values();
+        int n = res.size();
+        double[] y = logs.of(res);
+        long stamp = logs.stamp();
         List<Eq> slots = eqs.slots(res.names());
         // update every equation first, so the confinement test sees this record for all of them
-        for (int i = 0; i < v.length; i++) {
-            double y = Log10.of(v[i]);
-            if (!Double.isNaN(y)) {
-                slots.get(i).t.add(r.iter(), y);
+        for (int i = 0; i < n; i++) {
+            if (!Double.isNaN(y[i])) {
+                slots.get(i).t.add(stamp, r.iter(), y[i]);
             }
         }
-        for (int i = 0; i < v.length; i++) {
-            if (Double.isNaN(Log10.of(v[i]))) {
+        for (int i = 0; i < n; i++) {
+            if (Double.isNaN(y[i])) {
                 continue;
             }
             Eq e = slots.get(i);
             if (e.open) {
                 checkResolved(e, r, out);
-            } else if (e.t.candidate(minRise) && e.t.count - e.t.lastEval >= evalEvery) {
-                e.t.lastEval = e.t.count;
+            } else if (e.t.candidate(minRise) && e.t.count() - e.t.lastEval >= evalEvery) {
+                e.t.lastEval = e.t.count();
                 evaluate(e, slots, r, out);
             }
         }
@@ -157,7 +164,7 @@ final class SingleEquationBlowupDetector implements Detector {
         }
         if (familyMateRising || (others > 0 && othersRising >= othersRisingFraction * others)) {
             // not confined to this equation: look again only after a quarter window
-            e.t.lastEval = e.t.count + window / 4;
+            e.t.lastEval = e.t.count() + window / 4;
             return;
         }
         double[] sl = slopes.stream().mapToDouble(Double::doubleValue).toArray();
@@ -172,7 +179,7 @@ final class SingleEquationBlowupDetector implements Detector {
         ev.put("slope_low", Log10.round(f.low()));
         ev.put("slope_high", Log10.round(f.high()));
         ev.put("rise_decades", Log10.round(rise));
-        ev.put("residual", Log10.round(Math.pow(10, e.t.last)));
+        ev.put("residual", Log10.round(Math.pow(10, e.t.last())));
         ev.put("baseline", Log10.round(Math.pow(10, e.t.minSmooth())));
         ev.put("p_trend", Log10.round(late.trend().pIncreasing()));
         ev.put("rising_points", f.n());
@@ -194,10 +201,10 @@ final class SingleEquationBlowupDetector implements Detector {
     }
 
     private void checkResolved(Eq e, IterationRecord r, Consumer<Detection> out) {
-        boolean recovered = e.t.warm() && e.t.smooth <= e.openFrom + minRise / 2;
+        boolean recovered = e.t.warm() && e.t.smooth() <= e.openFrom + minRise / 2;
         String why = "back near the level it rose from";
-        if (!recovered && e.segmentSinceOpen && e.t.warm() && e.t.count - e.t.lastEval >= evalEvery) {
-            e.t.lastEval = e.t.count;
+        if (!recovered && e.segmentSinceOpen && e.t.warm() && e.t.count() - e.t.lastEval >= evalEvery) {
+            e.t.lastEval = e.t.count();
             recovered = e.t.window(xs, ys).high() < 0;
             why = "falling again after the restart";
         }
@@ -206,7 +213,7 @@ final class SingleEquationBlowupDetector implements Detector {
         }
         e.open = false;
         Map<String, Object> ev = new LinkedHashMap<>();
-        ev.put("residual", Log10.round(Math.pow(10, e.t.last)));
+        ev.put("residual", Log10.round(Math.pow(10, e.t.last())));
         out.accept(new Detection(Patterns.SINGLE_EQUATION_BLOWUP, DetectionState.RESOLVED, Severity.CRITICAL,
                 r.iter(), List.of(e.t.name), null, e.t.name + " residual " + why, "", ev));
     }

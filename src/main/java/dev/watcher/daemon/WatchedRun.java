@@ -68,6 +68,7 @@ final class WatchedRun extends VerticleBase {
     private long savedRecords = -1;
     private final LiveBridge live;
     private final String liveUrl;
+    private final WallForecast wallForecast = new WallForecast();
 
     /** What the run tells the action stage. Called on the run's thread. */
     interface StopHook {
@@ -314,7 +315,10 @@ final class WatchedRun extends VerticleBase {
             s.put("counters", pipeline.counters().toMap());
             Map<String, Object> snap = Daemon.snapshot(pipeline);
             s.put("snapshot", snap);
-            Map<String, Object> wall = wallForecast(snap, now, recs);
+            if (caughtUp) {
+                wallForecast.observe(now, pipeline.lastIter());
+            }
+            Map<String, Object> wall = wallForecast.forecast(snap.get("ConvergedDetector"));
             if (!wall.isEmpty()) {
                 s.put("wall_forecast", wall);
             }
@@ -326,55 +330,6 @@ final class WatchedRun extends VerticleBase {
         } catch (IOException e) {
             LOG.warn("{}: cannot save the run state: {}", spec.name(), e.toString());
         }
-    }
-
-    // iteration rate over the last minute or so, for wall-time forecasts (live runs only)
-    private Instant rateSince;
-    private long rateRecords;
-    private double rate = Double.NaN;
-
-    /**
-     * Turns the convergence forecasts (in iterations) into wall time with the iteration rate observed since
-     * the run caught up: {@code iterations_per_second} and per equation {@code seconds} with its range.
-     */
-    @SuppressWarnings("unchecked")
-    private Map<String, Object> wallForecast(Map<String, Object> snap, Instant now, long recs) {
-        if (!caughtUp) {
-            return Map.of();
-        }
-        if (rateSince == null) {
-            rateSince = now;
-            rateRecords = recs;
-            return Map.of();
-        }
-        double secs = Duration.between(rateSince, now).toMillis() / 1000.0;
-        if (secs >= 5 && recs > rateRecords) {
-            rate = (recs - rateRecords) / secs;
-            if (secs > 120) { // keep the rate recent: restart the window
-                rateSince = now;
-                rateRecords = recs;
-            }
-        }
-        Object conv = snap.get("ConvergedDetector");
-        if (Double.isNaN(rate) || !(conv instanceof Map<?, ?> c) || !(c.get("equations") instanceof Map<?, ?> eqs)) {
-            return Map.of();
-        }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("iterations_per_second", Math.round(rate * 1000) / 1000.0);
-        Map<String, Object> per = new LinkedHashMap<>();
-        for (Map.Entry<?, ?> e : eqs.entrySet()) {
-            if (e.getValue() instanceof Map<?, ?> f && "converging".equals(f.get("forecast"))) {
-                Map<String, Object> w = new LinkedHashMap<>();
-                for (String k : new String[] {"iterations", "iterations_low", "iterations_high"}) {
-                    if (f.get(k) instanceof Number n && Double.isFinite(n.doubleValue())) {
-                        w.put(k.replace("iterations", "seconds"), Math.round(n.doubleValue() / rate));
-                    }
-                }
-                per.put(e.getKey().toString(), w);
-            }
-        }
-        out.put("equations", per);
-        return out;
     }
 
     private void publish() {

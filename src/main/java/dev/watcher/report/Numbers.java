@@ -67,6 +67,24 @@ final class Numbers {
         return String.format(Locale.ROOT, "%.1f", v);
     }
 
+    /**
+     * A span of time for people, in two units at most (the smaller one truncated): 45 s, 3 min 20 s, 2 h 05 min,
+     * 3 d 04 h.
+     */
+    static String duration(long seconds) {
+        long s = Math.max(0, seconds);
+        if (s < 60) {
+            return s + " s";
+        }
+        if (s < 3600) {
+            return String.format(Locale.ROOT, "%d min %02d s", s / 60, s % 60);
+        }
+        if (s < 86_400) {
+            return String.format(Locale.ROOT, "%d h %02d min", s / 3600, s % 3600 / 60);
+        }
+        return String.format(Locale.ROOT, "%s d %02d h", count(s / 86_400), s % 86_400 / 3600);
+    }
+
     /** A whole number with thin grouping: 1 000 000. */
     static String count(long n) {
         return String.format(Locale.ROOT, "%,d", n).replace(',', '\u202f');

@@ -269,6 +269,12 @@ final class Page {
         if (s.has("caught_up")) {
             f.add(new String[] {"caught up with the log", s.path("caught_up").asBoolean() ? "yes" : "no"});
         }
+        double rate = Numbers.of(s.path("wall_forecast").get("iterations_per_second"));
+        if (rate > 0) {
+            double over = Numbers.of(s.path("wall_forecast").get("rate_seconds"));
+            f.add(new String[] {"iteration rate (last save)", Numbers.show(rate) + " per second"
+                    + (over > 0 ? " over the last " + Numbers.duration(Math.round(over)) : "")});
+        }
         out.append("<dl class=\"facts\">");
         for (String[] kv : f) {
             out.append("<div><dt>").append(Html.text(kv[0])).append("</dt><dd>").append(Html.text(kv[1]))
@@ -340,10 +346,12 @@ final class Page {
             }
             out.append(".</p>\n");
         }
+        JsonNode wall = r.state().path("wall_forecast").path("equations");
         if (eqs.size() > 0) {
             out.append("<table class=\"grid\"><thead><tr><th>Equation</th><th class=\"num\">Residual</th>")
                     .append("<th class=\"num\">Target</th><th>Forecast</th>")
                     .append("<th class=\"num\">Iterations to target (range)</th>")
+                    .append(wall.size() > 0 ? "<th class=\"num\">Wall time to target (range)</th>" : "")
                     .append("<th class=\"num\">Slope (decades / iteration)</th></tr></thead><tbody>\n");
             for (Iterator<Map.Entry<String, JsonNode>> it = eqs.fields(); it.hasNext();) {
                 Map.Entry<String, JsonNode> e = it.next();
@@ -359,10 +367,19 @@ final class Page {
                         .append(Html.text(Numbers.show(Numbers.of(f.get("residual"))))).append("</td><td class=\"num\">")
                         .append(Html.text(Numbers.show(Numbers.of(f.get("target"))))).append("</td><td>")
                         .append(Html.text(f.path("forecast").asText("\u2013"))).append("</td><td class=\"num\">")
-                        .append(Html.text(iters)).append("</td><td class=\"num\">")
-                        .append(Html.text(shown(f.get("slope_decades_per_iteration")))).append("</td></tr>\n");
+                        .append(Html.text(iters)).append("</td><td class=\"num\">");
+                if (wall.size() > 0) {
+                    out.append(Html.text(wallTime(wall.path(e.getKey())))).append("</td><td class=\"num\">");
+                }
+                out.append(Html.text(shown(f.get("slope_decades_per_iteration")))).append("</td></tr>\n");
             }
             out.append("</tbody></table>\n");
+            if (wall.size() > 0) {
+                out.append("<p>Wall times assume the iteration rate of the last save goes on (")
+                        .append(Html.text(Numbers.show(Numbers.of(r.state().path("wall_forecast")
+                                .get("iterations_per_second"))))).append(" per second); the range is the")
+                        .append(" fit's interval only.</p>\n");
+            }
         }
         Map<String, JsonNode> monitors = new LinkedHashMap<>();
         settled.fields().forEachRemaining(e -> monitors.put(e.getKey(), e.getValue()));
@@ -384,6 +401,22 @@ final class Page {
             }
             out.append("</tbody></table>\n");
         }
+    }
+
+    /** An equation's wall time to target with its range, from the run state's wall forecast; a dash without. */
+    private static String wallTime(JsonNode w) {
+        double t = Numbers.of(w.get("seconds"));
+        if (!(t >= 0)) {
+            return "\u2013";
+        }
+        double lo = Numbers.of(w.get("seconds_low"));
+        double hi = Numbers.of(w.get("seconds_high"));
+        String s = Numbers.duration(Math.round(t));
+        if (lo >= 0 && hi >= 0 && (lo != t || hi != t)) {
+            s += " (" + Numbers.duration(Math.round(Math.min(lo, hi))) + "\u2013"
+                    + Numbers.duration(Math.round(Math.max(lo, hi))) + ")";
+        }
+        return s;
     }
 
     private static String shown(JsonNode n) {

@@ -30,6 +30,13 @@ class WallForecastTest {
     /** The daemon saves a run's state at most every two seconds while records come: one observation per save. */
     private static final Duration SAVE = Duration.ofSeconds(2);
 
+    private static final Map<String, List<IterationRecord>> HISTORIES = new java.util.concurrent.ConcurrentHashMap<>();
+
+    /** The first {@code n} records of a scenario, computed once for the class (the solver is deterministic). */
+    private static List<IterationRecord> history(String scenario, int n) {
+        return HISTORIES.computeIfAbsent(scenario + " " + n, k -> Histories.run(scenario, n));
+    }
+
     /** A log being written: {@code records} at {@code perSecond} records per second of the clock from {@code start}. */
     private record Writing(List<IterationRecord> records, Instant start, double perSecond) {
 
@@ -67,7 +74,7 @@ class WallForecastTest {
 
     @Test
     void noForecastBeforeTheRateIsKnown() {
-        List<IterationRecord> rs = Histories.run("slow-plateaus", 600);
+        List<IterationRecord> rs = history("converging", 1200);
         Map<String, Object> snap = convergedAfter(rs, 400);
         WallForecast w = new WallForecast();
         assertEquals(Map.of(), w.forecast(snap), "nothing observed");
@@ -94,8 +101,8 @@ class WallForecastTest {
 
     @Test
     void theRateCountsIterationsNotRecordsOverTheLastTwoMinutes() {
-        // a log that prints every third iteration of the slow-plateaus run, two records per second
-        List<IterationRecord> printed = everyKth(Histories.run("slow-plateaus"), 3);
+        // a log that prints every third iteration of the converging run, two records per second
+        List<IterationRecord> printed = everyKth(history("converging", 1200), 3);
         MutableClock clock = new MutableClock(T0);
         Writing log = new Writing(printed, T0, 2.0);
         WallForecast w = new WallForecast();
@@ -103,7 +110,7 @@ class WallForecastTest {
         follow(w, clock, log, Duration.ofSeconds(30));
         assertEquals(30.0, w.spanSeconds(), "all of it while shorter than the window");
         assertEquals((log.lastIterAt(clock.instant()) - log.lastIterAt(T0)) / 30.0, w.rate());
-        follow(w, clock, log, Duration.ofSeconds(270));
+        follow(w, clock, log, Duration.ofSeconds(170));
         Instant now = clock.instant();
         assertEquals(120.0, w.spanSeconds(), "the window: saves every 2 s land on now - 120 s");
         double expected = (log.lastIterAt(now) - log.lastIterAt(now.minus(WallForecast.WINDOW))) / 120.0;
@@ -113,7 +120,7 @@ class WallForecastTest {
 
     @Test
     void aSlowdownShowsWithinAWindowAndOnlyTheRecentPaceCounts() {
-        List<IterationRecord> rs = Histories.run("slow-plateaus");
+        List<IterationRecord> rs = history("converging", 1200);
         MutableClock clock = new MutableClock(T0);
         WallForecast w = new WallForecast();
         Writing fast = new Writing(rs, T0, 4.0);
@@ -135,7 +142,7 @@ class WallForecastTest {
 
     @Test
     void aRestartThatSetsTheCounterBackStartsTheWindowAgain() {
-        List<IterationRecord> rs = Histories.run("restart");
+        List<IterationRecord> rs = history("restart", 700);
         int back = IntStream.range(1, rs.size()).filter(i -> rs.get(i).iter() < rs.get(i - 1).iter()).findFirst()
                 .orElseThrow();
         // the scenario: killed at iteration 300, resumed from the snapshot of 200
@@ -164,9 +171,9 @@ class WallForecastTest {
     @Test
     void secondsAreTheIterationForecastsOverTheRateAndNotConvergingIsCarried() {
         // over-relaxed run at iteration 300: continuity and momentum not converging, energy converging
-        Map<String, Object> hot = convergedAfter(Histories.run("hot-relaxation"), 300);
+        Map<String, Object> hot = convergedAfter(history("hot-relaxation", 300), 300);
         // the converging run at iteration 500: the flow equations at target, energy still converging
-        Map<String, Object> conv = convergedAfter(Histories.run("converging"), 500);
+        Map<String, Object> conv = convergedAfter(history("converging", 1200), 500);
         WallForecast w = new WallForecast();
         w.observe(T0, 1000);
         w.observe(T0.plusSeconds(7), 1000 + 52); // 52 iterations in 7 s
@@ -220,7 +227,7 @@ class WallForecastTest {
     @Test
     void aSlowRunKeepsItsRateToFourSignificantDigits() {
         // a long transient: one iteration every seven minutes; saves only come when a record does
-        Map<String, Object> snap = convergedAfter(Histories.run("converging"), 500);
+        Map<String, Object> snap = convergedAfter(history("converging", 1200), 500);
         WallForecast w = new WallForecast();
         for (int i = 0; i <= 5; i++) {
             w.observe(T0.plusSeconds(420L * i), 500 + i);

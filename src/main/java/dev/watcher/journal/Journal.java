@@ -31,8 +31,11 @@ import java.util.Map;
 import java.util.function.Consumer;
 
 /**
- * The event timeline: an append-only JSON Lines file, one event per line, each flushed to the file before
- * {@link #append} returns (a crash may lose at most the event being written, never an earlier one).
+ * The event timeline: an append-only JSON Lines file, one event per line, each written to the file before
+ * {@link #append} returns and, for the daemon, forced to the disk too (a crash may lose at most the event
+ * being written, never an earlier one). A replay's timeline, rebuilt from the log by running the replay
+ * again, is forced once when closed instead of after every event ({@link #open(Path, Clock, Consumer,
+ * boolean, boolean)}): a forced write costs milliseconds on a real disk, and a replay may write thousands.
  *
  * <p>Resume: on open it reads the existing file, drops an unterminated last line (the event being written
  * when the previous daemon died), and learns per run the last {@code seq} and how many <em>stream events</em>
@@ -60,10 +63,13 @@ public final class Journal implements EventSink, AutoCloseable {
     private final Map<String, Long> streamHeld = new HashMap<>();
     private final Map<String, Long> streamSeen = new HashMap<>();
     private final List<Consumer<TimelineEvent>> listeners = new ArrayList<>();
+    private final boolean forceEach;
     private boolean closed;
 
-    private Journal(Path file, Clock clock, Consumer<TimelineEvent> echo, boolean fresh) throws IOException {
+    private Journal(Path file, Clock clock, Consumer<TimelineEvent> echo, boolean fresh, boolean forceEach)
+            throws IOException {
         this.file = file;
+        this.forceEach = forceEach;
         this.clock = clock;
         this.echo = echo == null ? e -> { } : echo;
         Path parent = file.toAbsolutePath().getParent();
@@ -85,7 +91,17 @@ public final class Journal implements EventSink, AutoCloseable {
      */
     public static Journal open(Path file, Clock clock, Consumer<TimelineEvent> echo, boolean fresh)
             throws IOException {
-        return new Journal(file, clock, echo, fresh);
+        return new Journal(file, clock, echo, fresh, true);
+    }
+
+    /**
+     * As {@link #open(Path, Clock, Consumer, boolean)}; {@code forceEachEvent} false writes each event at once
+     * (readers of the file see it) but forces the file to the disk only when the journal is closed. For a
+     * timeline that can be made again from its input ({@code replay}); the daemon's timeline forces each event.
+     */
+    public static Journal open(Path file, Clock clock, Consumer<TimelineEvent> echo, boolean fresh,
+            boolean forceEachEvent) throws IOException {
+        return new Journal(file, clock, echo, fresh, forceEachEvent);
     }
 
     public Path file() {
@@ -193,7 +209,9 @@ public final class Journal implements EventSink, AutoCloseable {
             while (buf.hasRemaining()) {
                 pos += channel.write(buf, pos);
             }
-            channel.force(false);
+            if (forceEach) {
+                channel.force(false);
+            }
         } catch (IOException ex) {
             throw new UncheckedIOException("cannot write the timeline " + file, ex);
         }

@@ -82,6 +82,25 @@ class JournalIT {
     }
 
     @Test
+    void aReplayTimelineForcedOnlyAtCloseStillShowsEachEventToReadersAsItIsAppended(@TempDir Path dir)
+            throws Exception {
+        Path f = dir.resolve("timeline.jsonl");
+        try (Journal j = Journal.open(f, CLOCK, null, true, false)) {
+            j.append(PendingEvent.run("a", 0, "started", "replay"));
+            assertEquals(1, Files.readAllLines(f).size(), "written before append returns");
+            j.append(det("a", 10, "residual-level"));
+            List<String> lines = Files.readAllLines(f);
+            assertEquals(2, lines.size());
+            assertEquals(2, JSON.readTree(lines.get(1)).get("seq").asLong());
+        }
+        // and a journal opened on it afterwards learns it like any other
+        try (Journal j = Journal.open(f, CLOCK, null, false)) {
+            assertEquals(2, j.lastSeq("a"));
+            assertEquals(1, j.streamEventsHeld("a"));
+        }
+    }
+
+    @Test
     void aHalfWrittenLastLineIsDroppedOnOpen(@TempDir Path dir) throws Exception {
         Path f = dir.resolve("timeline.jsonl");
         try (Journal j = Journal.open(f, CLOCK, null, false)) {

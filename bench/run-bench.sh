@@ -5,6 +5,9 @@
 #   bench/run-bench.sh            3,000,000 lines (about 290 MB)
 #   bench/run-bench.sh --big      also 30,000,000 lines (about 3 GB) under the same -Xmx, to show bounded memory
 #
+# The replay reads the table with bench/bench-table.yaml (seven residuals and the monitor vmid), so every
+# standard detector runs, the monitor detectors included (BENCH_FORMAT overrides it, e.g. BENCH_FORMAT=table).
+#
 # Environment: BENCH_DIR (default: a fresh temp dir, removed at the end), BENCH_XMX (default 128m),
 # BENCH_KEEP=1 keeps the generated files. The figures are a measurement, not a test.
 set -euo pipefail
@@ -12,6 +15,7 @@ set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$root"
 xmx="${BENCH_XMX:-128m}"
+format="${BENCH_FORMAT:-$root/bench/bench-table.yaml}"
 big=0
 [[ "${1:-}" == "--big" ]] && big=1
 
@@ -71,10 +75,13 @@ run_one() {
   if [[ "$has_replay" == 1 ]]; then
     local state="$work/state-$lines"; rm -rf "$state"; mkdir -p "$state"
     WATCHER_HEAP="$xmx" WATCHER_JAVA_OPTS="-Xlog:gc:file=$work/gc-$lines.log ${WATCHER_JAVA_OPTS:-}" \
-      timed "$root/watcher" replay "$file" --format table --state "$state"
+      timed "$root/watcher" replay "$file" --format "$format" --state "$state"
     # peak heap: the largest heap occupancy the GC log shows before a collection
     local peak; peak=$(grep -o '[0-9]*M->' "$work/gc-$lines.log" 2>/dev/null | sed 's/M->//' | sort -n | tail -1 || true)
     echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (-Xmx$xmx, peak heap ${peak:-?} MB by GC log)"
+    echo "                format: $format"
+    local counts; counts=$(grep -o '"type":"detection"[^}]*"state":"open"' "$state/timeline.jsonl" 2>/dev/null | wc -l || true)
+    echo "                timeline: $(wc -l <"$state/timeline.jsonl") events, ${counts} detections opened"
     [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
     tail -n 3 "$work/out" | sed 's/^/                /'
   else

@@ -8,9 +8,7 @@ import dev.watcher.model.IterationRecord;
 import dev.watcher.model.Notice;
 import dev.watcher.model.PendingEvent;
 import dev.watcher.notify.Dispatcher;
-import dev.watcher.tail.LineHandler;
 import dev.watcher.tail.LogReader;
-import dev.watcher.tail.TailNotice;
 import dev.watcher.tail.TailOptions;
 import io.vertx.core.Vertx;
 import java.io.IOException;
@@ -35,8 +33,9 @@ public final class Replay {
     /** Runs the replay; returns the process exit code. */
     public static int run(DaemonConfig c) throws IOException, StateDir.LockedException {
         try (StateDir state = StateDir.open(c.stateDir(), true);
+                // the timeline is made again by replaying again: forced to the disk once, at the end
                 Journal journal = Journal.open(c.timelineFile(), c.clock(),
-                        c.quiet() ? null : new ConsoleEcho(c.out()), true)) {
+                        c.quiet() ? null : new ConsoleEcho(c.out()), true, false)) {
             Vertx vertx = null;
             Dispatcher dispatcher = null;
             List<ChannelSpec> channels = c.effectiveRules().channels();
@@ -92,23 +91,15 @@ public final class Replay {
         // their state while the log is read, and with --notify what is still open at the end is sent.
         p.decider().setCatchingUp(true);
         journal.append(PendingEvent.run(spec.name(), 0, "started", "replay of " + describe(spec.sources())));
-        for (int i = 0; i < spec.sources().size(); i++) {
-            Path src = spec.sources().get(i);
-            if (!Files.isRegularFile(src)) {
-                throw new java.nio.file.NoSuchFileException(src.toString(), null, "no such log file");
+        // reading and parsing on a reader thread, the rest of the pipeline on this one, in the same order
+        try (ReadAhead ahead = new ReadAhead(p)) {
+            for (int i = 0; i < spec.sources().size(); i++) {
+                Path src = spec.sources().get(i);
+                if (!Files.isRegularFile(src)) {
+                    throw new java.nio.file.NoSuchFileException(src.toString(), null, "no such log file");
+                }
+                ahead.run(i, h -> LogReader.readAll(src, h, TailOptions.DEFAULTS));
             }
-            final int source = i;
-            LogReader.readAll(src, new LineHandler() {
-                @Override
-                public void line(CharSequence line, long lineNo) {
-                    p.line(source, line, lineNo);
-                }
-
-                @Override
-                public void notice(TailNotice n) {
-                    Daemon.tailNotice(p, n);
-                }
-            }, TailOptions.DEFAULTS);
         }
         p.flush();
         if (c.sendNotices()) {

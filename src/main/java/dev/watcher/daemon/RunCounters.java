@@ -42,6 +42,19 @@ public final class RunCounters {
         return s;
     }
 
+    /**
+     * Counts lines read. One writer (the run's thread): a plain read and an ordered write, no atomic
+     * read-modify-write per line; readers on other threads see the count a moment later at worst.
+     */
+    void addLines(long n) {
+        lines.setRelease(lines.getPlain() + n);
+    }
+
+    /** Counts one record made (one writer, as {@link #addLines}). */
+    void addRecord() {
+        records.setRelease(records.getPlain() + 1);
+    }
+
     long countMalformed(Malformed kind) {
         return malformed.get(kind).incrementAndGet();
     }

@@ -1,6 +1,7 @@
 package dev.watcher.daemon;
 
 import dev.watcher.model.IterationRecord;
+import dev.watcher.model.Malformed;
 import dev.watcher.model.Notice;
 import dev.watcher.model.PendingEvent;
 import dev.watcher.model.StopRequest;
@@ -19,6 +20,10 @@ interface RunOutputs {
     }
 
     default void record(IterationRecord r) {
+    }
+
+    /** Bad input at {@code line} was counted and skipped (after the records before it, before those after). */
+    default void malformed(Malformed kind, long line, String detail) {
     }
 
     /** A new segment started at {@code iter} (a restart): the stop gate waits past a grace period. */

@@ -20,6 +20,7 @@ import java.util.EnumMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -28,7 +29,12 @@ import org.slf4j.LoggerFactory;
  * -> records -> detectors -> rules -> outputs. Used alike by {@code watch} (fed by followers) and
  * {@code replay} (fed by a whole-file reader), so both give the same detections in the same order.
  *
- * <p>Confined to the run's thread; not thread-safe. Never throws on bad input: malformed lines are counted
+ * <p>A run's lines come either straight through {@link #line} or, for a long read, through a {@link ReadAhead}
+ * that parses on a reader thread and hands the parsed items to {@link #parsed}, {@link #segmentParsed} and
+ * {@link #malformed} in the same order.
+ *
+ * <p>Confined to the run's thread (the parsers to whichever thread a {@link ReadAhead} lends them to while it
+ * reads); not thread-safe. Never throws on bad input: malformed lines are counted
  * per kind and logged at most once per kind per minute.
  */
 final class RunPipeline {
@@ -39,6 +45,10 @@ final class RunPipeline {
     private final List<LineParser> parsers;
     private final RecordJoiner joiner;
     private final List<Detector> detectors;
+    /** The detectors as an array, and one sink for all their detections: nothing is allocated per call. */
+    private final Detector[] detectorArray;
+    private final Consumer<Detection> detections = this::onDetection;
+    private final Consumer<IterationRecord> records = this::onRecord;
     private final Decider decider;
     private final RunOutputs out;
     private final RunCounters counters;
@@ -54,6 +64,7 @@ final class RunPipeline {
         this.parsers = List.copyOf(parsers);
         this.joiner = parsers.size() > 1 ? new RecordJoiner(parsers.size(), joinBound) : null;
         this.detectors = List.copyOf(detectors);
+        this.detectorArray = this.detectors.toArray(new Detector[0]);
         this.decider = decider;
         this.out = out;
         this.counters = counters;
@@ -86,13 +97,40 @@ final class RunPipeline {
 
     /** One complete line of source {@code source} (0-based, in the order the sources were given). */
     void line(int source, CharSequence line, long lineNo) {
-        counters.lines.incrementAndGet();
+        counters.addLines(1);
         parsers.get(source).accept(line, lineNo, sinks.get(source));
+    }
+
+    /** The parser of source {@code source}, for a {@link ReadAhead} to run on its reader thread. */
+    LineParser parser(int source) {
+        return parsers.get(source);
+    }
+
+    /** {@code n} lines read by a {@link ReadAhead} (counted as {@link #line} counts them). */
+    void linesRead(long n) {
+        if (n > 0) {
+            counters.addLines(n);
+        }
+    }
+
+    /** A record the parser of {@code source} made (joined with the other sources' when there are several). */
+    void parsed(int source, IterationRecord record) {
+        if (joiner == null) {
+            onRecord(record);
+        } else {
+            joiner.accept(source, record, records);
+        }
+    }
+
+    /** A new segment the parser recognised, before the first record of that segment. */
+    void segmentParsed(int seg, long lineNo, String reason) {
+        onSegment(seg, lineNo, reason);
     }
 
     /** Bad input found below the parser (the reader): counted and skipped like a malformed line. */
     void malformed(Malformed kind, long lineNo, String detail) {
         long n = counters.countMalformed(kind);
+        out.malformed(kind, lineNo, detail);
         Instant now = clock.instant();
         Instant prev = lastLogged.get(kind);
         if (prev == null || Duration.between(prev, now).compareTo(Duration.ofMinutes(1)) >= 0) {
@@ -107,7 +145,7 @@ final class RunPipeline {
             parsers.get(i).flush(sinks.get(i));
         }
         if (joiner != null) {
-            joiner.flush(this::onRecord);
+            joiner.flush(records);
         }
     }
 
@@ -149,11 +187,12 @@ final class RunPipeline {
     }
 
     private void onRecord(IterationRecord r) {
-        counters.records.incrementAndGet();
+        counters.addRecord();
         last = r;
         out.record(r);
-        for (Detector d : detectors) {
-            d.observe(r, this::onDetection);
+        Consumer<Detection> sink = detections;
+        for (Detector d : detectorArray) {
+            d.observe(r, sink);
         }
     }
 
@@ -165,8 +204,8 @@ final class RunPipeline {
         counters.segments.incrementAndGet();
         long iter = lastIter();
         out.event(PendingEvent.run(run, iter, "segment", reason + " (line " + lineNo + ")"));
-        for (Detector d : detectors) {
-            d.segment(seg, iter, this::onDetection);
+        for (Detector d : detectorArray) {
+            d.segment(seg, iter, detections);
         }
         out.segment(seg, iter);
     }
@@ -191,16 +230,12 @@ final class RunPipeline {
 
         @Override
         public void record(IterationRecord record) {
-            if (joiner == null) {
-                onRecord(record);
-            } else {
-                joiner.accept(source, record, RunPipeline.this::onRecord);
-            }
+            parsed(source, record);
         }
 
         @Override
         public void segment(int seg, long line, String reason) {
-            onSegment(seg, line, reason);
+            segmentParsed(seg, line, reason);
         }
 
         @Override

@@ -60,6 +60,8 @@ final class WatchedRun extends VerticleBase {
     private final RunHistory history;
     private final List<FileFollower> followers = new ArrayList<>();
     private RunPipeline pipeline;
+    /** Reads and parses ahead on its own thread while the history is re-read (null once caught up). */
+    private ReadAhead ahead;
     private SilenceWatch silence;
     private boolean caughtUp;
     private boolean stopped;
@@ -117,6 +119,7 @@ final class WatchedRun extends VerticleBase {
         pipeline = Pipelines.build(spec, config.effectiveRules(), config.overrides(), new Outputs(),
                 dev.watcher.parse.RecordJoiner.DEFAULT_MAX_PENDING, config.clock());
         pipeline.decider().setCatchingUp(true);
+        ahead = new ReadAhead(pipeline);
         silence = new SilenceWatch(config.clock(), config.silenceMin(), 20.0);
         Map<String, Object> saved = state.loadRun(run);
         boolean sameFiles = sameFiles(saved);
@@ -213,12 +216,26 @@ final class WatchedRun extends VerticleBase {
         schedule(next.toMillis());
     }
 
-    /** Polls every follower once; true when each has read up to the end of its file as it was. */
+    /**
+     * Polls every follower once; true when each has read up to the end of its file as it was. While the
+     * history is re-read (up to 16 MiB a poll), a reader thread reads and parses while this one runs the rest
+     * of the pipeline; the poll returns only when both are done, so it is still one call at a time.
+     */
     private boolean pollAll() {
         boolean atEnd = true;
         for (int i = 0; i < followers.size(); i++) {
             final int source = i;
-            followers.get(i).poll(new LineHandler() {
+            FileFollower f = followers.get(i);
+            if (ahead != null) {
+                try {
+                    ahead.run(source, f::poll);
+                } catch (IOException e) {
+                    throw new java.io.UncheckedIOException(e); // a follower reports file trouble, never throws it
+                }
+                atEnd &= f.atEnd();
+                continue;
+            }
+            f.poll(new LineHandler() {
                 @Override
                 public void line(CharSequence line, long lineNo) {
                     pipeline.line(source, line, lineNo);
@@ -229,7 +246,7 @@ final class WatchedRun extends VerticleBase {
                     Daemon.tailNotice(pipeline, n);
                 }
             });
-            atEnd &= followers.get(i).atEnd();
+            atEnd &= f.atEnd();
         }
         return atEnd;
     }
@@ -267,6 +284,7 @@ final class WatchedRun extends VerticleBase {
 
     private void caughtUp() {
         caughtUp = true;
+        closeReadAhead(); // from here on a poll reads what was just written: little, and on this thread
         journal.append(PendingEvent.run(spec.name(), pipeline.lastIter(), "caught-up",
                 "read the history: " + pipeline.counters().lines() + " lines, " + pipeline.counters().records()
                         + " records; now following"));
@@ -332,6 +350,13 @@ final class WatchedRun extends VerticleBase {
         }
     }
 
+    private void closeReadAhead() {
+        if (ahead != null) {
+            ahead.close();
+            ahead = null;
+        }
+    }
+
     private void publish() {
         if (live != null) {
             live.publish(LiveBridge.statusOf(pipeline, stopped ? dev.watcher.live.RunStatus.ENDED
@@ -348,6 +373,7 @@ final class WatchedRun extends VerticleBase {
         if (timerId >= 0) {
             vertx.cancelTimer(timerId);
         }
+        closeReadAhead();
         for (FileFollower f : followers) {
             try {
                 f.close();

@@ -49,18 +49,7 @@ final class FamilyDivergenceDetector implements Detector {
 
     private static final String P = Patterns.FAMILY_DIVERGENCE + ".";
 
-    private final int window;
-    private final double minRise;
-    private final double minSlope;
-    private final double alpha;
     private final double floor;
-    private final int warmup;
-    private final double cusumK;
-    private final double cusumH;
-    private final double minScale;
-    private final double riseNoise;
-    private final int baselineWindow;
-    private final int evalEvery;
     private final int minFamilySize;
     private final Map<String, List<String>> declared;
     private final PerName<RiseTracker> eqs;
@@ -72,6 +61,7 @@ final class FamilyDivergenceDetector implements Detector {
     private final double[] ys;
     private long records;
     private final ResidualLogs logs;
+    private final RiseTracker.Params rp;
 
     FamilyDivergenceDetector(DetectSettings s) {
         this(s, new ResidualLogs());
@@ -79,24 +69,13 @@ final class FamilyDivergenceDetector implements Detector {
 
     FamilyDivergenceDetector(DetectSettings s, ResidualLogs logs) {
         this.logs = logs;
-        window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
-        minRise = s.number(P + "min_rise", 0.5);
-        minSlope = s.number(P + "min_slope", 0.002);
-        alpha = s.number(P + "alpha", 0.01);
+        rp = RiseTracker.Params.read(s, P, 0.002, 400);
         floor = Math.log10(s.number(P + "floor", 1e-12));
-        warmup = Math.max(1, s.integer(P + "warmup", 50));
-        cusumK = s.number(P + "cusum_k", 0.5);
-        cusumH = s.number(P + "cusum_h", 5);
-        minScale = s.number(P + "min_scale", 0.005);
-        riseNoise = s.number(P + "rise_noise", 4);
-        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 400));
-        evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();
-        eqs = new PerName<>(n -> new RiseTracker(logs.rises.of(n, window, warmup, cusumK, cusumH, minScale),
-                baselineWindow, riseNoise));
-        xs = new double[window];
-        ys = new double[window];
+        eqs = new PerName<>(n -> new RiseTracker(logs.rises.of(n, rp), rp));
+        xs = new double[rp.window()];
+        ys = new double[rp.window()];
     }
 
     private static final class Open {
@@ -132,7 +111,7 @@ final class FamilyDivergenceDetector implements Detector {
             }
             RiseTracker t = slots.get(i);
             t.add(stamp, r.iter(), y);
-            anyCandidate |= t.candidate(minRise);
+            anyCandidate |= t.candidate(rp.minRise());
         }
         if (anyCandidate) {
             judge(r, out);
@@ -146,13 +125,13 @@ final class FamilyDivergenceDetector implements Detector {
         for (Map.Entry<String, List<String>> f : families.entrySet()) {
             String family = f.getKey();
             List<String> members = f.getValue();
-            if (isOpen(family) || records - lastEval.getOrDefault(family, Long.MIN_VALUE / 2) < evalEvery) {
+            if (isOpen(family) || records - lastEval.getOrDefault(family, Long.MIN_VALUE / 2) < rp.evalEvery()) {
                 continue;
             }
             boolean candidate = false;
             for (String m : members) {
                 RiseTracker t = eqs.get(m);
-                candidate |= t != null && t.candidate(minRise);
+                candidate |= t != null && t.candidate(rp.minRise());
             }
             if (!candidate) {
                 continue;
@@ -164,11 +143,11 @@ final class FamilyDivergenceDetector implements Detector {
             for (int i = 0; i < p.length; i++) {
                 p[i] = 1;
                 RiseTracker t = eqs.get(members.get(i));
-                if (t == null || !t.warm() || t.rise() < t.required(minRise) / 2 || t.last() < floor) {
+                if (t == null || !t.warm() || t.rise() < t.required(rp.minRise()) / 2 || t.last() < floor) {
                     continue;
                 }
                 RiseTracker.Late late = t.late(xs, ys);
-                if (late == null || late.fit().slope() < minSlope) {
+                if (late == null || late.fit().slope() < rp.minSlope()) {
                     continue;
                 }
                 p[i] = late.trend().pIncreasing();
@@ -178,7 +157,7 @@ final class FamilyDivergenceDetector implements Detector {
             if (2 * shaped <= members.size()) {
                 continue;
             }
-            boolean[] rejected = Holm.reject(p, p.length, alpha);
+            boolean[] rejected = Holm.reject(p, p.length, rp.alpha());
             List<String> rising = new ArrayList<>();
             List<Integer> idx = new ArrayList<>();
             for (int i = 0; i < p.length; i++) {
@@ -234,7 +213,7 @@ final class FamilyDivergenceDetector implements Detector {
         ev.put("rise_decades", Log10.round(maxRise));
         ev.put("fall_decades", Log10.round(minFall));
         ev.put("p_max", Log10.round(maxP));
-        ev.put("alpha", alpha);
+        ev.put("alpha", rp.alpha());
         if (Double.isFinite(curvatureT)) {
             ev.put("curvature_t", Log10.round(curvatureT));
         }
@@ -259,9 +238,9 @@ final class FamilyDivergenceDetector implements Detector {
                 if (t == null || !t.warm()) {
                     continue;
                 }
-                if (t.smooth() <= o.from[i] + minRise / 2) {
+                if (t.smooth() <= o.from[i] + rp.minRise() / 2) {
                     back++;
-                } else if (o.segmentSince && records % evalEvery == 0) {
+                } else if (o.segmentSince && records % rp.evalEvery() == 0) {
                     falling += t.window(xs, ys).high() < 0 ? 1 : 0;
                 }
             }

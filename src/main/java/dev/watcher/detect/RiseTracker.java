@@ -64,6 +64,11 @@ final class RiseTracker {
         this(new Core(name, window, warmup, cusumK, cusumH, minScale), baselineWindow, riseNoise);
     }
 
+    /** A tracker on a core that other trackers of the run may share, with a detector's parameters. */
+    RiseTracker(Core core, Params p) {
+        this(core, p.baselineWindow(), p.riseNoise());
+    }
+
     /** A tracker on a core that other trackers of the run may share. */
     RiseTracker(Core core, int baselineWindow, double riseNoise) {
         this.core = core;
@@ -315,10 +320,34 @@ final class RiseTracker {
         private final java.util.Map<java.util.List<Object>, java.util.Map<String, Core>> byParams =
                 new java.util.HashMap<>();
 
-        Core of(String name, int window, int warmup, double cusumK, double cusumH, double minScale) {
-            return byParams.computeIfAbsent(java.util.List.of(window, warmup, cusumK, cusumH, minScale),
-                    k -> new java.util.HashMap<>()).computeIfAbsent(name,
-                            n -> new Core(n, window, warmup, cusumK, cusumH, minScale));
+        Core of(String name, Params p) {
+            return byParams.computeIfAbsent(java.util.List.of(p.window(), p.warmup(), p.cusumK(), p.cusumH(),
+                    p.minScale()), k -> new java.util.HashMap<>()).computeIfAbsent(name,
+                            n -> new Core(n, p.window(), p.warmup(), p.cusumK(), p.cusumH(), p.minScale()));
+        }
+    }
+
+    /**
+     * The parameters the rise detectors have in common, read under a pattern's prefix (e.g.
+     * {@code single-equation-blowup.}); the defaults are those documented by each detector, and two of them
+     * differ between the detectors.
+     */
+    record Params(int window, double minRise, double minSlope, double alpha, int warmup, double cusumK,
+            double cusumH, double minScale, double riseNoise, int baselineWindow, int evalEvery) {
+
+        static Params read(DetectSettings s, String prefix, double minSlope, int baselineWindow) {
+            int window = Math.max(2 * MIN_LATE, s.integer(prefix + "window", 60));
+            return new Params(window,
+                    s.number(prefix + "min_rise", 0.5),
+                    s.number(prefix + "min_slope", minSlope),
+                    s.number(prefix + "alpha", 0.01),
+                    Math.max(1, s.integer(prefix + "warmup", 50)),
+                    s.number(prefix + "cusum_k", 0.5),
+                    s.number(prefix + "cusum_h", 5),
+                    s.number(prefix + "min_scale", 0.005),
+                    s.number(prefix + "rise_noise", 4),
+                    Math.max(window, s.integer(prefix + "baseline_window", baselineWindow)),
+                    Math.max(1, s.integer(prefix + "eval_every", 3)));
         }
     }
 }

@@ -48,22 +48,12 @@ final class SingleEquationBlowupDetector implements Detector {
 
     private static final String P = Patterns.SINGLE_EQUATION_BLOWUP + ".";
 
-    private final int window;
-    private final double minSlope;
-    private final double minRise;
-    private final double alpha;
-    private final int warmup;
-    private final double cusumK;
-    private final double cusumH;
-    private final double minScale;
-    private final double riseNoise;
-    private final int baselineWindow;
-    private final int evalEvery;
     private final double othersRisingFraction;
     private final PerName<Eq> eqs;
     private final double[] xs;
     private final double[] ys;
     private final ResidualLogs logs;
+    private final RiseTracker.Params rp;
 
     SingleEquationBlowupDetector(DetectSettings s) {
         this(s, new ResidualLogs());
@@ -71,21 +61,11 @@ final class SingleEquationBlowupDetector implements Detector {
 
     SingleEquationBlowupDetector(DetectSettings s, ResidualLogs logs) {
         this.logs = logs;
-        window = Math.max(2 * RiseTracker.MIN_LATE, s.integer(P + "window", 60));
-        minSlope = s.number(P + "min_slope", 0.003);
-        minRise = s.number(P + "min_rise", 0.5);
-        alpha = s.number(P + "alpha", 0.01);
-        warmup = Math.max(1, s.integer(P + "warmup", 50));
-        cusumK = s.number(P + "cusum_k", 0.5);
-        cusumH = s.number(P + "cusum_h", 5);
-        minScale = s.number(P + "min_scale", 0.005);
-        riseNoise = s.number(P + "rise_noise", 4);
-        baselineWindow = Math.max(window, s.integer(P + "baseline_window", 300));
-        evalEvery = Math.max(1, s.integer(P + "eval_every", 3));
+        rp = RiseTracker.Params.read(s, P, 0.003, 300);
         othersRisingFraction = s.number(P + "others_rising_fraction", 0.25);
-        eqs = new PerName<>(n -> new Eq(logs.rises.of(n, window, warmup, cusumK, cusumH, minScale)));
-        xs = new double[window];
-        ys = new double[window];
+        eqs = new PerName<>(n -> new Eq(logs.rises.of(n, rp)));
+        xs = new double[rp.window()];
+        ys = new double[rp.window()];
     }
 
     private final class Eq {
@@ -95,7 +75,7 @@ final class SingleEquationBlowupDetector implements Detector {
         double openFrom;
 
         Eq(RiseTracker.Core core) {
-            t = new RiseTracker(core, baselineWindow, riseNoise);
+            t = new RiseTracker(core, rp);
         }
     }
 
@@ -119,7 +99,7 @@ final class SingleEquationBlowupDetector implements Detector {
             Eq e = slots.get(i);
             if (e.open) {
                 checkResolved(e, r, out);
-            } else if (e.t.candidate(minRise) && e.t.count() - e.t.lastEval >= evalEvery) {
+            } else if (e.t.candidate(rp.minRise()) && e.t.count() - e.t.lastEval >= rp.evalEvery()) {
                 e.t.lastEval = e.t.count();
                 evaluate(e, slots, r, out);
             }
@@ -127,11 +107,11 @@ final class SingleEquationBlowupDetector implements Detector {
     }
 
     private RiseTracker.Late risingLate(RiseTracker t, double share) {
-        if (!t.warm() || t.rise() < share * t.required(minRise)) {
+        if (!t.warm() || t.rise() < share * t.required(rp.minRise())) {
             return null;
         }
         RiseTracker.Late l = t.late(xs, ys);
-        if (l == null || l.fit().slope() < minSlope || !(l.fit().low() > 0) || l.trend().pIncreasing() >= alpha) {
+        if (l == null || l.fit().slope() < rp.minSlope() || !(l.fit().low() > 0) || l.trend().pIncreasing() >= rp.alpha()) {
             return null;
         }
         return l;
@@ -156,7 +136,7 @@ final class SingleEquationBlowupDetector implements Detector {
             boolean mate = e.t.family != null && e.t.family.equals(o.t.family);
             // another equation climbing too (a signalled CUSUM and a quarter of the rise, or a significant
             // late rise of half of it): the residuals are not rising alone
-            boolean climbing = o.t.warm() && o.t.cusumSignalled() && o.t.rise() >= 0.25 * o.t.required(minRise);
+            boolean climbing = o.t.warm() && o.t.cusumSignalled() && o.t.rise() >= 0.25 * o.t.required(rp.minRise());
             if (climbing || risingLate(o.t, 0.5) != null) {
                 othersRising++;
                 familyMateRising |= mate;
@@ -164,7 +144,7 @@ final class SingleEquationBlowupDetector implements Detector {
         }
         if (familyMateRising || (others > 0 && othersRising >= othersRisingFraction * others)) {
             // not confined to this equation: look again only after a quarter window
-            e.t.lastEval = e.t.count() + window / 4;
+            e.t.lastEval = e.t.count() + rp.window() / 4;
             return;
         }
         double[] sl = slopes.stream().mapToDouble(Double::doubleValue).toArray();
@@ -201,9 +181,9 @@ final class SingleEquationBlowupDetector implements Detector {
     }
 
     private void checkResolved(Eq e, IterationRecord r, Consumer<Detection> out) {
-        boolean recovered = e.t.warm() && e.t.smooth() <= e.openFrom + minRise / 2;
+        boolean recovered = e.t.warm() && e.t.smooth() <= e.openFrom + rp.minRise() / 2;
         String why = "back near the level it rose from";
-        if (!recovered && e.segmentSinceOpen && e.t.warm() && e.t.count() - e.t.lastEval >= evalEvery) {
+        if (!recovered && e.segmentSinceOpen && e.t.warm() && e.t.count() - e.t.lastEval >= rp.evalEvery()) {
             e.t.lastEval = e.t.count();
             recovered = e.t.window(xs, ys).high() < 0;
             why = "falling again after the restart";

@@ -31,6 +31,7 @@ final class TableParser implements LineParser {
     private final String comment;
 
     private final int[] end = new int[1];
+    private final Row row = new Row();
     private int[] starts = new int[32];
     private int[] ends = new int[32];
     private int count;
@@ -92,12 +93,8 @@ final class TableParser implements LineParser {
         int[] kinds = h.kinds;
         int[] slots = h.slotOf;
         int columns = kinds.length;
-        double[] res = new double[h.resNames.size()];
-        double[] mon = new double[h.monNames.size()];
-        long iter = -1;
-        long step = IterationRecord.NONE;
-        long inner = IterationRecord.NONE;
-        double time = Double.NaN;
+        Row row = this.row;
+        row.start(h);
         int k = 0;
         int[] end = this.end;
         while (true) {
@@ -124,36 +121,8 @@ final class TableParser implements LineParser {
             if (Numbers.isMalformed(v)) {
                 return false;
             }
-            switch (kinds[k]) {
-                case Header.RESIDUAL:
-                    res[slots[k]] = v;
-                    break;
-                case Header.MONITOR:
-                    mon[slots[k]] = v;
-                    break;
-                case Header.ITERATION:
-                    iter = counter(v);
-                    if (iter < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.STEP:
-                    step = counter(v);
-                    if (step < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.INNER:
-                    inner = counter(v);
-                    if (inner < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.TIME:
-                    time = v;
-                    break;
-                default:
-                    break;
+            if (!row.put(kinds[k], slots[k], v)) {
+                return false;
             }
             i = end[0];
             k++;
@@ -161,10 +130,7 @@ final class TableParser implements LineParser {
         if (k != columns) {
             return false;
         }
-        int segment = segments.before(iter, lineNo, sink);
-        sink.record(new IterationRecord(iter, step, time, inner,
-                res.length == 0 ? Samples.EMPTY : new Samples(h.resNames, res),
-                mon.length == 0 ? Samples.EMPTY : new Samples(h.monNames, mon), segment, lineNo));
+        row.emit(h, segments.before(row.iter, lineNo, sink), lineNo, sink);
         return true;
     }
 
@@ -184,12 +150,8 @@ final class TableParser implements LineParser {
         int[] kinds = h.kinds;
         int[] slots = h.slotOf;
         int columns = kinds.length;
-        double[] res = new double[h.resNames.size()];
-        double[] mon = new double[h.monNames.size()];
-        long iter = -1;
-        long step = IterationRecord.NONE;
-        long inner = IterationRecord.NONE;
-        double time = Double.NaN;
+        Row row = this.row;
+        row.start(h);
         int k = 0;
         int[] end = this.end;
         while (true) {
@@ -216,36 +178,8 @@ final class TableParser implements LineParser {
             if (Numbers.isMalformed(v)) {
                 return false;
             }
-            switch (kinds[k]) {
-                case Header.RESIDUAL:
-                    res[slots[k]] = v;
-                    break;
-                case Header.MONITOR:
-                    mon[slots[k]] = v;
-                    break;
-                case Header.ITERATION:
-                    iter = counter(v);
-                    if (iter < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.STEP:
-                    step = counter(v);
-                    if (step < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.INNER:
-                    inner = counter(v);
-                    if (inner < 0) {
-                        return false;
-                    }
-                    break;
-                case Header.TIME:
-                    time = v;
-                    break;
-                default:
-                    break;
+            if (!row.put(kinds[k], slots[k], v)) {
+                return false;
             }
             i = end[0];
             k++;
@@ -253,11 +187,62 @@ final class TableParser implements LineParser {
         if (k != columns) {
             return false;
         }
-        int segment = segments.before(iter, lineNo, sink);
-        sink.record(new IterationRecord(iter, step, time, inner,
-                res.length == 0 ? Samples.EMPTY : new Samples(h.resNames, res),
-                mon.length == 0 ? Samples.EMPTY : new Samples(h.monNames, mon), segment, lineNo));
+        row.emit(h, segments.before(row.iter, lineNo, sink), lineNo, sink);
         return true;
+    }
+
+    /**
+     * The values of the data row being read by a fast path, one column at a time; reused from row to row
+     * (the arrays are new for each row: they become the record's).
+     */
+    private static final class Row {
+        double[] res;
+        double[] mon;
+        long iter;
+        long step;
+        long inner;
+        double time;
+
+        void start(Header h) {
+            res = new double[h.resNames.size()];
+            mon = new double[h.monNames.size()];
+            iter = -1;
+            step = IterationRecord.NONE;
+            inner = IterationRecord.NONE;
+            time = Double.NaN;
+        }
+
+        /** Stores one column's value by its kind; false when a counter column does not hold a count. */
+        boolean put(int kind, int slot, double v) {
+            switch (kind) {
+                case Header.RESIDUAL:
+                    res[slot] = v;
+                    return true;
+                case Header.MONITOR:
+                    mon[slot] = v;
+                    return true;
+                case Header.ITERATION:
+                    iter = counter(v);
+                    return iter >= 0;
+                case Header.STEP:
+                    step = counter(v);
+                    return step >= 0;
+                case Header.INNER:
+                    inner = counter(v);
+                    return inner >= 0;
+                case Header.TIME:
+                    time = v;
+                    return true;
+                default:
+                    return true;
+            }
+        }
+
+        void emit(Header h, int segment, long lineNo, ParseSink sink) {
+            sink.record(new IterationRecord(iter, step, time, inner,
+                    res.length == 0 ? Samples.EMPTY : new Samples(h.resNames, res),
+                    mon.length == 0 ? Samples.EMPTY : new Samples(h.monNames, mon), segment, lineNo));
+        }
     }
 
     private static long counter(double v) {

@@ -42,7 +42,10 @@ import java.util.function.Consumer;
  * records per segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
  * added to {@code min_rise}), {@code baseline_window} 400 records (the minimum a rise is measured from is
  * the lowest smoothed level over this many records),
- * {@code eval_every} 3 records, {@code min_family_size} 2. Cost: O(1) per value; the tests run only while a
+ * {@code eval_every} 3 records, {@code min_family_size} 2, {@code recovered_margin} 0.3 decades and
+ * {@code max_required} 2 decades (the rise that counts is also at least {@code recovered_margin} above the
+ * highest rise the equation came back from on its own in this segment, capped at {@code max_required}: the
+ * excursions of a noisy plateau, or the jumps of an unsteady run's time steps, set the bar). Cost: O(1) per value; the tests run only while a
  * member rises persistently.
  */
 final class FamilyDivergenceDetector implements Detector {

@@ -48,6 +48,12 @@ final class RiseTracker {
     final String family;
     private final Core core;
     private final double riseNoise;
+    private final double recoveredMargin;
+    private final double maxRequired;
+    /** The highest rise of the CUSUM episode under way (0 when none is). */
+    private double episodePeak;
+    /** The highest rise this equation has come back from in this segment (an episode that ended). */
+    private double recoveredFrom;
     // sliding-window minimum of the smoothed level (monotonic deque of values and record counts)
     private final int baselineWindow;
     private final double[] dqVal;
@@ -58,24 +64,15 @@ final class RiseTracker {
     private long seen;
     long lastEval = Long.MIN_VALUE / 2;
 
-    /** A tracker with a core of its own. */
-    RiseTracker(String name, int window, int baselineWindow, int warmup, double cusumK, double cusumH,
-            double minScale, double riseNoise) {
-        this(new Core(name, window, warmup, cusumK, cusumH, minScale), baselineWindow, riseNoise);
-    }
-
     /** A tracker on a core that other trackers of the run may share, with a detector's parameters. */
     RiseTracker(Core core, Params p) {
-        this(core, p.baselineWindow(), p.riseNoise());
-    }
-
-    /** A tracker on a core that other trackers of the run may share. */
-    RiseTracker(Core core, int baselineWindow, double riseNoise) {
         this.core = core;
         this.name = core.name;
         this.family = EquationFamilies.familyOf(name);
-        this.riseNoise = riseNoise;
-        this.baselineWindow = Math.max(core.logs.capacity(), baselineWindow);
+        this.riseNoise = p.riseNoise();
+        this.recoveredMargin = p.recoveredMargin();
+        this.maxRequired = p.maxRequired();
+        this.baselineWindow = Math.max(core.logs.capacity(), p.baselineWindow());
         dqVal = new double[this.baselineWindow + 1];
         dqAt = new long[this.baselineWindow + 1];
     }
@@ -105,6 +102,13 @@ final class RiseTracker {
             while (dqAt[dqHead] <= count - baselineWindow) {
                 dqHead = wrap(dqHead + 1, cap);
                 dqSize--;
+            }
+            // the rises this equation came back from on its own set the bar for the next one
+            if (core.cusum.signalled()) {
+                episodePeak = Math.max(episodePeak, smooth - dqVal[dqHead]);
+            } else if (episodePeak > 0) {
+                recoveredFrom = Math.max(recoveredFrom, episodePeak);
+                episodePeak = 0;
             }
         }
     }
@@ -170,10 +174,13 @@ final class RiseTracker {
     /**
      * The rise that counts: {@code minRise} plus {@code riseNoise} standard deviations (1.2533 times the mean
      * absolute deviation) of the wandering around Holt's forecast: {@code minRise} on smooth histories, more
-     * on noisy ones.
+     * on noisy ones. And at least {@code recoveredMargin} above the highest rise this equation has come back
+     * from in this segment (a plateau whose noise makes excursions of its own), but never more than
+     * {@code maxRequired} decades for that reason: a real blow-up is still caught well before 3 decades.
      */
     double required(double minRise) {
-        return minRise + riseNoise * 1.2533 * core.wander;
+        double noise = minRise + riseNoise * 1.2533 * core.wander;
+        return Math.max(noise, Math.min(maxRequired, recoveredFrom + recoveredMargin));
     }
 
     /** How far the raw values fell within the window before the baseline minimum (0 when they did not). */
@@ -224,6 +231,8 @@ final class RiseTracker {
     void reset() {
         core.reset();
         seen = 0;
+        episodePeak = 0;
+        recoveredFrom = 0;
         dqHead = 0;
         dqSize = 0;
         lastEval = Long.MIN_VALUE / 2;
@@ -333,7 +342,8 @@ final class RiseTracker {
      * differ between the detectors.
      */
     record Params(int window, double minRise, double minSlope, double alpha, int warmup, double cusumK,
-            double cusumH, double minScale, double riseNoise, int baselineWindow, int evalEvery) {
+            double cusumH, double minScale, double riseNoise, int baselineWindow, int evalEvery,
+            double recoveredMargin, double maxRequired) {
 
         static Params read(DetectSettings s, String prefix, double minSlope, int baselineWindow) {
             int window = Math.max(2 * MIN_LATE, s.integer(prefix + "window", 60));
@@ -347,7 +357,9 @@ final class RiseTracker {
                     s.number(prefix + "min_scale", 0.005),
                     s.number(prefix + "rise_noise", 4),
                     Math.max(window, s.integer(prefix + "baseline_window", baselineWindow)),
-                    Math.max(1, s.integer(prefix + "eval_every", 3)));
+                    Math.max(1, s.integer(prefix + "eval_every", 3)),
+                    s.number(prefix + "recovered_margin", 0.3),
+                    s.number(prefix + "max_required", 2.0));
         }
     }
 }

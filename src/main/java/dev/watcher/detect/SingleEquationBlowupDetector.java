@@ -41,7 +41,10 @@ import java.util.function.Consumer;
  * segment, {@code cusum_k} 0.5, {@code cusum_h} 5, {@code min_scale} 0.005 decades, {@code rise_noise} 4 (standard deviations of the level's wandering
  * added to {@code min_rise}), {@code baseline_window} 300 records (the minimum a rise is measured from is
  * the lowest smoothed level over this many records), {@code eval_every} 3
- * records, {@code others_rising_fraction} 0.25. Cost: O(1) per value; O(window^2 log window) per evaluation,
+ * records, {@code others_rising_fraction} 0.25, {@code recovered_margin} 0.3 decades and
+ * {@code max_required} 2 decades (the rise that counts is also at least {@code recovered_margin} above the
+ * highest rise the equation came back from on its own in this segment, capped at {@code max_required}: the
+ * excursions of a noisy plateau, or the jumps of an unsteady run's time steps, set the bar). Cost: O(1) per value; O(window^2 log window) per evaluation,
  * which happens only while a residual rises persistently.
  */
 final class SingleEquationBlowupDetector implements Detector {

@@ -4,8 +4,8 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
+import dev.watcher.testing.SlurmCluster;
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
@@ -18,7 +18,6 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.AfterEach;
-import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Tag;
 import org.junit.jupiter.api.Test;
@@ -39,35 +38,16 @@ class SlurmStopIT {
 
     @BeforeAll
     static void slurmIsThere() throws Exception {
-        boolean ci = System.getenv("CI") != null && !System.getenv("CI").isBlank();
-        String problem = null;
-        if (run(List.of("bash", "-c", "command -v sbatch")).isBlank()) {
-            problem = "sbatch is not on PATH";
-        } else if (!run(List.of("bash", "-c", "sinfo -h -o %t 2>&1")).matches("(?s).*\\b(idle|mix|alloc)\\b.*")) {
-            problem = "no SLURM node is up (sinfo)";
-        }
-        if (problem != null) {
-            if (ci) {
-                fail("CI is set but " + problem + ": .ci/slurm-up.sh must bring SLURM up before the tests");
-            }
-            Assumptions.abort(problem + " (run .ci/slurm-up.sh as root to test against SLURM)");
-        }
+        SlurmCluster.requireUp();
     }
 
     @AfterEach
     void cancelLeftovers() throws Exception {
-        for (String id : submitted) {
-            run(List.of("scancel", id));
-        }
+        SlurmCluster.cancel(submitted);
     }
 
     private static String run(List<String> cmd) throws IOException, InterruptedException {
-        Process p = new ProcessBuilder(cmd).redirectErrorStream(true).start();
-        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
-        if (!p.waitFor(60, TimeUnit.SECONDS)) {
-            p.destroyForcibly();
-        }
-        return out.strip();
+        return SlurmCluster.run(cmd);
     }
 
     private String submit(Map<String, String> extraEnv, String... args) throws Exception {

@@ -4,11 +4,11 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import dev.watcher.demo.Scenario;
+import dev.watcher.testing.SlurmCluster;
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
@@ -22,7 +22,6 @@ import java.util.Set;
 import java.util.concurrent.TimeUnit;
 import java.util.stream.Collectors;
 import org.junit.jupiter.api.AfterEach;
-import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Tag;
@@ -57,19 +56,7 @@ class SlurmWatchEndToEndIT {
 
     @BeforeAll
     static void slurmIsThere() throws Exception {
-        boolean ci = System.getenv("CI") != null && !System.getenv("CI").isBlank();
-        String problem = null;
-        if (run(List.of("bash", "-c", "command -v sbatch")).isBlank()) {
-            problem = "sbatch is not on PATH";
-        } else if (!run(List.of("bash", "-c", "sinfo -h -o %t 2>&1")).matches("(?s).*\\b(idle|mix|alloc)\\b.*")) {
-            problem = "no SLURM node is up (sinfo)";
-        }
-        if (problem != null) {
-            if (ci) {
-                fail("CI is set but " + problem + ": .ci/slurm-up.sh must bring SLURM up before the tests");
-            }
-            Assumptions.abort(problem + " (run .ci/slurm-up.sh as root to test against SLURM)");
-        }
+        SlurmCluster.requireUp();
     }
 
     /** A launcher like ./watcher, but on this build's classes: what the wrapper runs as $WATCHER. */
@@ -83,9 +70,7 @@ class SlurmWatchEndToEndIT {
 
     @AfterEach
     void cancelLeftovers() throws Exception {
-        for (String id : submitted) {
-            run(List.of("scancel", id));
-        }
+        SlurmCluster.cancel(submitted);
     }
 
     private static List<String> javaCommand() {
@@ -94,12 +79,7 @@ class SlurmWatchEndToEndIT {
     }
 
     private static String run(List<String> cmd) throws IOException, InterruptedException {
-        Process p = new ProcessBuilder(cmd).redirectErrorStream(true).start();
-        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
-        if (!p.waitFor(60, TimeUnit.SECONDS)) {
-            p.destroyForcibly();
-        }
-        return out.strip();
+        return SlurmCluster.run(cmd);
     }
 
     private static boolean listed(String id) throws Exception {

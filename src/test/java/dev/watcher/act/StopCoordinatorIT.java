@@ -12,6 +12,7 @@ import dev.watcher.model.Severity;
 import dev.watcher.model.StopGate;
 import dev.watcher.model.StopRequest;
 import dev.watcher.model.TimelineEvent;
+import dev.watcher.testing.MutableClock;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.attribute.PosixFilePermissions;

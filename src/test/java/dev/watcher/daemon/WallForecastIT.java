@@ -12,6 +12,7 @@ import dev.watcher.model.IterationRecord;
 import dev.watcher.parse.Formats;
 import dev.watcher.report.ReportWriter;
 import dev.watcher.rules.RulesLoader;
+import dev.watcher.testing.MutableClock;
 import java.io.OutputStream;
 import java.io.PrintStream;
 import java.io.Writer;

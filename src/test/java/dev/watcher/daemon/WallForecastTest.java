@@ -10,6 +10,7 @@ import dev.watcher.detect.DetectSettings;
 import dev.watcher.detect.Detector;
 import dev.watcher.detect.Detectors;
 import dev.watcher.model.IterationRecord;
+import dev.watcher.testing.MutableClock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;

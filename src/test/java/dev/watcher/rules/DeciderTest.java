@@ -17,6 +17,7 @@ import dev.watcher.model.Severity;
 import dev.watcher.model.StopGate;
 import dev.watcher.model.StopRequest;
 import dev.watcher.model.WebhookSpec;
+import dev.watcher.testing.MutableClock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;

@@ -7,6 +7,7 @@ import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
 import dev.watcher.model.Patterns;
 import dev.watcher.model.Severity;
+import dev.watcher.testing.MutableClock;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.Optional;

@@ -1,4 +1,4 @@
-package dev.watcher.daemon;
+package dev.watcher.testing;
 
 import java.time.Clock;
 import java.time.Duration;
@@ -6,17 +6,23 @@ import java.time.Instant;
 import java.time.ZoneId;
 import java.time.ZoneOffset;
 
-/** A clock the test moves by hand; one thread may move it while others read it. */
-final class MutableClock extends Clock {
-
+/**
+ * A clock the test moves by hand, for the stages that take a {@link Clock} (rules' waits and reminders, the
+ * silence watchdog, stop gates, the daemon's wall forecast). One thread may move it while others read it.
+ */
+public final class MutableClock extends Clock {
     private volatile Instant now;
 
-    MutableClock(Instant start) {
+    public MutableClock(Instant start) {
         this.now = start;
     }
 
-    synchronized void advance(Duration d) {
+    public synchronized void advance(Duration d) {
         now = now.plus(d);
+    }
+
+    public void set(Instant t) {
+        now = t;
     }
 
     @Override

@@ -71,6 +71,7 @@ final class WatchedRun extends VerticleBase {
     private final LiveBridge live;
     private final String liveUrl;
     private final WallForecast wallForecast = new WallForecast();
+    private dev.watcher.live.RunForecast liveForecast = dev.watcher.live.RunForecast.NONE;
 
     /** What the run tells the action stage. Called on the run's thread. */
     interface StopHook {
@@ -120,6 +121,10 @@ final class WatchedRun extends VerticleBase {
                 dev.watcher.parse.RecordJoiner.DEFAULT_MAX_PENDING, config.clock());
         pipeline.decider().setCatchingUp(true);
         ahead = new ReadAhead(pipeline);
+        if (live != null) {
+            live.residualTarget(run, LiveBridge.residualTarget(Pipelines.settings(spec,
+                    config.effectiveRules().forRun(run), config.overrides())));
+        }
         silence = new SilenceWatch(config.clock(), config.silenceMin(), 20.0);
         Map<String, Object> saved = state.loadRun(run);
         boolean sameFiles = sameFiles(saved);
@@ -340,6 +345,7 @@ final class WatchedRun extends VerticleBase {
             if (!wall.isEmpty()) {
                 s.put("wall_forecast", wall);
             }
+            liveForecast = LiveBridge.forecastOf(snap, wall);
             state.saveRun(spec.name(), s);
             history.save();
             if (live != null) {
@@ -360,7 +366,8 @@ final class WatchedRun extends VerticleBase {
     private void publish() {
         if (live != null) {
             live.publish(LiveBridge.statusOf(pipeline, stopped ? dev.watcher.live.RunStatus.ENDED
-                    : caughtUp ? dev.watcher.live.RunStatus.FOLLOWING : dev.watcher.live.RunStatus.CATCHING_UP));
+                    : caughtUp ? dev.watcher.live.RunStatus.FOLLOWING : dev.watcher.live.RunStatus.CATCHING_UP,
+                    liveForecast));
         }
     }
 

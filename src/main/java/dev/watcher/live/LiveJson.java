@@ -43,7 +43,54 @@ final class LiveJson {
         m.put("lines", s.lines());
         m.put("records", s.records());
         m.put("malformed", s.malformed());
+        m.put("forecast", forecast(s.forecast()));
         return m;
+    }
+
+    /**
+     * The forecast table's data. A value not known is left out (rather than sent as "NaN"): {@code seconds}
+     * appear only once the live run's iteration rate is known, {@code iterations} only for a forecast that
+     * gives them.
+     */
+    static Map<String, Object> forecast(RunForecast f) {
+        Map<String, Object> m = new LinkedHashMap<>();
+        known(m, "iterations_per_second", f.iterationsPerSecond());
+        known(m, "rate_seconds", f.rateSeconds());
+        m.put("verdict", f.verdict());
+        m.put("waiting_for", f.waitingFor());
+        List<Object> eqs = new ArrayList<>(f.equations().size());
+        for (RunForecast.Equation e : f.equations()) {
+            Map<String, Object> q = new LinkedHashMap<>();
+            q.put("name", e.name());
+            q.put("status", e.status());
+            known(q, "target", e.target());
+            known(q, "iterations", e.iterations());
+            known(q, "iterations_low", e.iterationsLow());
+            known(q, "iterations_high", e.iterationsHigh());
+            known(q, "seconds", e.seconds());
+            known(q, "seconds_low", e.secondsLow());
+            known(q, "seconds_high", e.secondsHigh());
+            eqs.add(q);
+        }
+        m.put("equations", eqs);
+        List<Object> mons = new ArrayList<>(f.monitors().size());
+        for (RunForecast.Monitor x : f.monitors()) {
+            Map<String, Object> q = new LinkedHashMap<>();
+            q.put("name", x.name());
+            q.put("state", x.state());
+            known(q, "value", x.value());
+            known(q, "predicted_final", x.predictedFinal());
+            known(q, "remaining_error", x.remainingError());
+            mons.add(q);
+        }
+        m.put("monitors", mons);
+        return m;
+    }
+
+    private static void known(Map<String, Object> m, String key, double v) {
+        if (Double.isFinite(v)) {
+            m.put(key, v);
+        }
     }
 
     /** The timeline event with the keys of the timeline line, in its order. */
@@ -65,6 +112,14 @@ final class LiveJson {
         m.put("lastIter", p.lastIter());
         m.put("residuals", traces(p.residuals()));
         m.put("monitors", traces(p.monitors()));
+        List<Object> levels = new ArrayList<>(p.residualLevels().size());
+        for (RunPlots.Level l : p.residualLevels()) {
+            Map<String, Object> lm = new LinkedHashMap<>();
+            lm.put("value", l.value());
+            lm.put("label", l.label());
+            levels.add(lm);
+        }
+        m.put("residualLevels", levels);
         return m;
     }
 

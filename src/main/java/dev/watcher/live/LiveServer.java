@@ -36,14 +36,14 @@ import org.slf4j.LoggerFactory;
  *
  * <table>
  * <caption>Routes (GET only)</caption>
- * <tr><td>/</td><td>the page (runs, latest values, open conditions, live plots, timelines)</td></tr>
+ * <tr><td>/</td><td>the page (runs, latest values, open conditions, forecasts, live plots with level lines, timelines)</td></tr>
  * <tr><td>/assets/NAME</td><td>the page's own script and style and the plotting library, from the classpath;
  * a fixed list of names, nothing else is served (no directory listing, no file system)</td></tr>
  * <tr><td>/events</td><td>server-sent events: {@code hello} (every run) on connect, then {@code progress}
- * (a run's status, at most four times per second per run, when it changed) and {@code timeline} (each
- * event as the timeline writes it)</td></tr>
+ * (a run's status with its forecasts, at most four times per second per run, when it changed) and
+ * {@code timeline} (each event as the timeline writes it)</td></tr>
  * <tr><td>/api/runs</td><td>every run's status as JSON</td></tr>
- * <tr><td>/api/plots?run=R</td><td>the run's bounded history</td></tr>
+ * <tr><td>/api/plots?run=R</td><td>the run's bounded history and the level lines of its residual plot</td></tr>
  * <tr><td>/api/events?run=R&amp;max=N</td><td>the run's last timeline events</td></tr>
  * <tr><td>/metrics</td><td>Prometheus text format (the {@link WatcherMetrics} meters and whatever else
  * the registry holds)</td></tr>
@@ -385,7 +385,7 @@ public final class LiveServer implements AutoCloseable {
         synchronized (lastSent) {
             for (RunStatus s : runs) {
                 String sig = s.state() + '|' + s.lastIter() + '|' + s.lines() + '|' + s.records() + '|'
-                        + s.malformedLines() + '|' + s.openConditions();
+                        + s.malformedLines() + '|' + s.openConditions() + '|' + s.forecast().hashCode();
                 if (!sig.equals(lastSent.put(s.run(), sig))) {
                     out.append(sse("progress", LiveJson.status(s)));
                 }

@@ -19,10 +19,11 @@ import java.util.Objects;
  * @param lines          lines read from the log so far (monotonic)
  * @param records        iteration records assembled so far (monotonic)
  * @param malformed      malformed lines so far by kind id ({@code bad-number}, ...), monotonic per kind
+ * @param forecast       the forecasts of the run's last saved state ({@link RunForecast#NONE} before the first)
  */
 public record RunStatus(String run, String state, long lastIter, Map<String, Double> residuals,
         Map<String, Double> monitors, List<String> openConditions, long lines, long records,
-        Map<String, Long> malformed) {
+        Map<String, Long> malformed, RunForecast forecast) {
 
     /** Reading what the log already held when the watch started. */
     public static final String CATCHING_UP = "catching-up";
@@ -38,6 +39,7 @@ public record RunStatus(String run, String state, long lastIter, Map<String, Dou
         monitors = copy(monitors);
         openConditions = openConditions == null ? List.of() : List.copyOf(openConditions);
         malformed = copy(malformed);
+        forecast = forecast == null ? RunForecast.NONE : forecast;
     }
 
     private static <V> Map<String, V> copy(Map<String, V> m) {

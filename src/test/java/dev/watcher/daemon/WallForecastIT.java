@@ -35,7 +35,8 @@ import org.junit.jupiter.api.io.TempDir;
  * The wall-time forecast of a watched run, end to end: a thread writes the log of a real history (the project's
  * cavity solver, the converging run printing every second iteration) at a pace set on the daemon's injected clock,
  * the daemon follows it, and the run state file carries a {@code wall_forecast} whose rate is that pace and
- * whose seconds are the judge's iteration forecasts over that rate; the morning report shows both.
+ * whose seconds are the judge's iteration forecasts over that rate; the morning report shows both, and the live
+ * view of the same daemon carries the same forecasts and the residual plot's level lines.
  */
 class WallForecastIT {
 
@@ -65,7 +66,7 @@ class WallForecastIT {
         MutableClock clock = new MutableClock(Instant.parse("2026-03-02T21:00:00Z"));
         DaemonConfig c = new DaemonConfig(
                 List.of(new RunSpec("intake", List.of(log), List.of(Formats.builtIn("jsonl")))),
-                RulesLoader.defaults(), Map.of(), List.of(), state, null, false, Map.of(), false, null, null, null,
+                RulesLoader.defaults(), Map.of(), List.of(), state, null, false, Map.of(), false, null, "127.0.0.1:0", null,
                 false, Duration.ofMillis(50), Duration.ofMillis(200), Duration.ofMinutes(5), Duration.ofSeconds(2),
                 new PrintStream(OutputStream.nullOutputStream()), true, clock);
         Daemon d = new Daemon(c);
@@ -94,6 +95,9 @@ class WallForecastIT {
         t.start();
         Path rs = state.resolve("runs/intake.json");
         JsonNode saved;
+        JsonNode stable;
+        JsonNode live;
+        JsonNode levels;
         try {
             Path tl = state.resolve("timeline.jsonl");
             await().atMost(Duration.ofSeconds(30)).until(() -> Files.exists(tl)
@@ -103,6 +107,29 @@ class WallForecastIT {
             await().atMost(Duration.ofSeconds(60)).until(() -> Files.exists(rs)
                     && JSON.readTree(rs.toFile()).path("wall_forecast").path("rate_seconds").asDouble() >= 100);
             saved = JSON.readTree(rs.toFile());
+            // the writer stops, and with it the clock: no save follows the last one, which the live view shows
+            stop.set(true);
+            writer.join(30_000);
+            String[] last = {""};
+            await().atMost(Duration.ofSeconds(30)).pollDelay(Duration.ofMillis(700)).pollInterval(Duration.ofMillis(700))
+                    .until(() -> {
+                        String now = Files.readString(rs);
+                        boolean same = now.equals(last[0]);
+                        last[0] = now;
+                        return same;
+                    });
+            String started = Files.readAllLines(tl).stream().filter(l -> l.contains("live view at ")).findFirst()
+                    .orElseThrow();
+            String reason = JSON.readTree(started).get("reason").asText();
+            String base = reason.substring(reason.indexOf("live view at ") + "live view at ".length()).strip();
+            java.net.http.HttpClient http = java.net.http.HttpClient.newHttpClient();
+            stable = JSON.readTree(rs.toFile());
+            live = JSON.readTree(http.send(java.net.http.HttpRequest.newBuilder(java.net.URI.create(base + "api/runs"))
+                    .build(), java.net.http.HttpResponse.BodyHandlers.ofString()).body()).get(0).path("forecast");
+            levels = JSON.readTree(http.send(java.net.http.HttpRequest.newBuilder(java.net.URI.create(base
+                    + "api/plots?run=intake")).build(), java.net.http.HttpResponse.BodyHandlers.ofString()).body())
+                    .path("residualLevels");
+            assertEquals(last[0], Files.readString(rs), "no save while the live view was read");
         } finally {
             stop.set(true);
             writer.join(30_000);
@@ -144,6 +171,8 @@ class WallForecastIT {
         }
         assertTrue(converging > 0, "the energy residual of the converging run reaches 1e-5 near 720: " + eqs);
 
+        liveCarriesTheSave(stable, live, levels);
+
         // the morning report shows the rate and the wall times of the final save
         JsonNode last = JSON.readTree(rs.toFile());
         String html = Files.readString(ReportWriter.write(state, dir.resolve("report.html"), ZoneOffset.UTC));
@@ -162,6 +191,57 @@ class WallForecastIT {
             String cell = cells[5].substring(cells[5].lastIndexOf('>') + 1);
             assertEquals(e.getValue().has("seconds"), !cell.equals("\u2013"), e.getKey() + ": " + cell);
         }
+    }
+
+    /**
+     * The live view's forecasts against the run state file of the same save: the rate, each equation's
+     * status, target, iterations and seconds, each monitor's predicted final value and remaining error (the
+     * converged judge's where it has one, else the monitor-settled judgement's, as the report merges them), and
+     * the residual plot's level lines at 1e-3 and at the target the judge used.
+     */
+    private static void liveCarriesTheSave(JsonNode state, JsonNode live, JsonNode levels) {
+        JsonNode wall = state.path("wall_forecast");
+        JsonNode judge = state.path("snapshot").path("ConvergedDetector");
+        assertEquals(wall.get("iterations_per_second").asDouble(), live.path("iterations_per_second").asDouble(),
+                live.toString());
+        assertEquals(wall.get("rate_seconds").asDouble(), live.path("rate_seconds").asDouble());
+        assertEquals(judge.path("verdict").asText(), live.path("verdict").asText());
+        JsonNode eqs = judge.path("equations");
+        assertEquals(eqs.size(), live.path("equations").size(), live.toString());
+        int i = 0;
+        for (Iterator<Map.Entry<String, JsonNode>> it = eqs.fields(); it.hasNext(); i++) {
+            Map.Entry<String, JsonNode> e = it.next();
+            JsonNode f = e.getValue();
+            JsonNode row = live.path("equations").get(i);
+            assertEquals(e.getKey(), row.path("name").asText());
+            assertEquals(f.path("forecast").asText(), row.path("status").asText(), e.getKey());
+            assertEquals(f.path("target").asDouble(), row.path("target").asDouble(), e.getKey());
+            for (String k : new String[] {"iterations", "iterations_low", "iterations_high"}) {
+                assertEquals(f.has(k), row.has(k), e.getKey() + " " + k);
+                assertEquals(f.path(k).asDouble(), row.path(k).asDouble(), e.getKey() + " " + k);
+            }
+            JsonNode w = wall.path("equations").path(e.getKey());
+            for (String k : new String[] {"seconds", "seconds_low", "seconds_high"}) {
+                assertEquals(w.has(k), row.has(k), e.getKey() + " " + k);
+                assertEquals(w.path(k).asDouble(), row.path(k).asDouble(), e.getKey() + " " + k);
+            }
+        }
+        Map<String, JsonNode> monitors = new java.util.LinkedHashMap<>();
+        state.path("snapshot").path("MonitorSettledDetector").path("monitors").fields()
+                .forEachRemaining(e -> monitors.put(e.getKey(), e.getValue()));
+        judge.path("monitors").fields().forEachRemaining(e -> monitors.put(e.getKey(), e.getValue()));
+        assertEquals(monitors.size(), live.path("monitors").size(), live.toString());
+        assertTrue(!monitors.isEmpty(), "the cavity's monitors were judged: " + state.path("snapshot"));
+        for (JsonNode m : live.path("monitors")) {
+            JsonNode own = monitors.get(m.path("name").asText());
+            assertEquals(own.path("state").asText(), m.path("state").asText(), m.toString());
+            assertEquals(own.path("predicted_final").asDouble(), m.path("predicted_final").asDouble(), m.toString());
+            assertEquals(own.path("remaining_error").asDouble(), m.path("remaining_error").asDouble(), m.toString());
+        }
+        assertEquals(2, levels.size(), levels.toString());
+        assertEquals(1e-3, levels.get(0).path("value").asDouble(), "1e-3: loose (common practice, no published source)");
+        assertEquals(eqs.elements().next().path("target").asDouble(), levels.get(1).path("value").asDouble(),
+                "the judge's target: " + levels);
     }
 
     /** The rate as the report prints it (four significant digits, no trailing zeros). */

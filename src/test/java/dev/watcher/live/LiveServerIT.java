@@ -8,6 +8,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.watcher.daemon.LiveFeeds;
+import dev.watcher.demo.Histories;
+import dev.watcher.detect.DetectSettings;
 import dev.watcher.model.EventType;
 import dev.watcher.model.IterationRecord;
 import dev.watcher.model.Malformed;
@@ -29,6 +32,7 @@ import java.io.InputStream;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Iterator;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.TimeUnit;
@@ -217,6 +221,108 @@ class LiveServerIT {
         JsonNode health = JSON.readTree(fetch(s, "/health", null).text());
         assertEquals("up", health.path("status").asText());
         assertEquals(2, health.path("runs").asInt());
+    }
+
+    /** Records of the project's cavity solver, the converging run, and the number of them a save had seen. */
+    private static final int SAVED_AT = 500;
+    /** The pace of the live run the wall forecast observed: iterations per second. */
+    private static final double PACE = 4.0;
+
+    @Test
+    void forecastsOfTheLastSaveReachTheApiAndTheStreamAndThePlotsCarryTheirLevelLines() throws Exception {
+        // A history of real numerics (the project's cavity solver): after 500 iterations of the converging run
+        // cont, mom-x and mom-y are below 1e-5 and temp still falls; the monitors have a predicted final value.
+        List<IterationRecord> history = Histories.run("converging", SAVED_AT);
+        for (IterationRecord r : history.subList(0, SAVED_AT)) {
+            runs.record("intake", r, 1);
+        }
+        runs.state("intake", RunStatus.FOLLOWING);
+        LiveFeeds.Saved saved = LiveFeeds.save(history.subList(0, SAVED_AT), DetectSettings.defaults(), PACE);
+        runs.residualTarget("intake", LiveFeeds.residualTarget(DetectSettings.defaults()));
+        LiveServer s = start(null);
+
+        // before the first save: the status carries an empty forecast
+        JsonNode before = JSON.readTree(fetch(s, "/api/runs", null).text()).get(0).path("forecast");
+        assertEquals(0, before.path("equations").size(), before.toString());
+        assertTrue(!before.has("iterations_per_second"), before.toString());
+
+        Sse sse = new Sse();
+        HttpClientResponse resp = get(client.request(HttpMethod.GET, s.port(), "127.0.0.1", "/events")
+                .compose(r -> r.send()).map(r -> r.handler(b -> sse.feed(b.toString()))));
+        await().atMost(Duration.ofSeconds(20)).until(() -> !sse.messages().isEmpty());
+        // the save arrives: only the forecast changes, and that alone is news for the stream
+        runs.forecast("intake", saved.forecast());
+        await().atMost(Duration.ofSeconds(20)).until(() -> progress(sse).stream()
+                .anyMatch(n -> n.path("forecast").path("equations").size() > 0));
+        JsonNode streamed = progress(sse).stream().filter(n -> n.path("forecast").path("equations").size() > 0)
+                .findFirst().orElseThrow().path("forecast");
+        JsonNode api = JSON.readTree(fetch(s, "/api/runs", null).text()).get(0).path("forecast");
+        assertEquals(api, streamed, "the stream and the API carry the same forecast");
+        resp.request().connection().close();
+
+        // against the detectors' own snapshot of the same records (read here from the snapshot maps)
+        JsonNode snap = JSON.valueToTree(saved.snapshot());
+        JsonNode wall = JSON.valueToTree(saved.wall());
+        JsonNode judge = snap.path("ConvergedDetector");
+        assertEquals(judge.path("verdict").asText(), api.path("verdict").asText());
+        double rate = api.path("iterations_per_second").asDouble();
+        assertEquals(PACE, rate, 1e-9, "the pace the log was written at: " + api);
+        assertEquals(120, api.path("rate_seconds").asDouble(), 1e-9, "the two minutes observed");
+        JsonNode eqs = judge.path("equations");
+        assertEquals(eqs.size(), api.path("equations").size());
+        int i = 0;
+        int converging = 0;
+        int reached = 0;
+        for (Iterator<Map.Entry<String, JsonNode>> it = eqs.fields(); it.hasNext(); i++) {
+            Map.Entry<String, JsonNode> e = it.next();
+            JsonNode f = e.getValue();
+            JsonNode row = api.path("equations").get(i);
+            assertEquals(e.getKey(), row.path("name").asText(), "the log's order");
+            assertEquals(f.path("forecast").asText(), row.path("status").asText(), e.getKey());
+            assertEquals(f.path("target").asDouble(), row.path("target").asDouble(), e.getKey());
+            switch (row.path("status").asText()) {
+                case RunForecast.CONVERGING -> {
+                    converging++;
+                    for (String k : new String[] {"", "_low", "_high"}) {
+                        double iterations = f.path("iterations" + k).asDouble();
+                        assertEquals(iterations, row.path("iterations" + k).asDouble(), e.getKey() + k);
+                        assertEquals(wall.path("equations").path(e.getKey()).path("seconds" + k).asDouble(),
+                                row.path("seconds" + k).asDouble(), e.getKey() + k);
+                        // whole seconds at the observed pace
+                        assertEquals(iterations / PACE, row.path("seconds" + k).asDouble(), 0.5, e.getKey() + k);
+                    }
+                }
+                case RunForecast.REACHED -> {
+                    reached++;
+                    assertTrue(f.path("residual").asDouble() <= f.path("target").asDouble(), e.getKey() + " " + f);
+                    assertEquals(0, row.path("iterations").asDouble(), e.getKey());
+                }
+                default -> assertTrue(!row.has("seconds"), "no time without a forecast in iterations: " + row);
+            }
+        }
+        // cont, mom-x, mom-y under 1e-5 by iteration 500 and temp still above (the solver's own history)
+        assertTrue(converging > 0 && reached > 0, api.toString());
+
+        JsonNode settled = snap.path("MonitorSettledDetector").path("monitors");
+        assertEquals(history.get(0).monitors().size(), api.path("monitors").size(), api.toString());
+        for (JsonNode m : api.path("monitors")) {
+            JsonNode own = judge.path("monitors").has(m.path("name").asText())
+                    ? judge.path("monitors").path(m.path("name").asText()) : settled.path(m.path("name").asText());
+            assertTrue(!own.isMissingNode(), m.toString());
+            assertEquals(own.path("state").asText(), m.path("state").asText());
+            assertEquals(own.path("predicted_final").asDouble(), m.path("predicted_final").asDouble(), m.toString());
+            assertEquals(own.path("remaining_error").asDouble(), m.path("remaining_error").asDouble(), m.toString());
+        }
+
+        // the residual plot's level lines: 1e-3 and the target the judge used for every equation
+        JsonNode levels = JSON.readTree(fetch(s, "/api/plots?run=intake", null).text()).path("residualLevels");
+        assertEquals(2, levels.size(), levels.toString());
+        assertEquals(RunPlots.LOOSE_RESIDUAL, levels.get(0).path("value").asDouble());
+        assertEquals("loose 1e-3", levels.get(0).path("label").asText());
+        double target = eqs.elements().next().path("target").asDouble();
+        assertEquals(target, levels.get(1).path("value").asDouble());
+        // 1e-5: the judge's default target (ConvergedDetector's Javadoc: residual_target, common practice)
+        assertEquals("target 1e-5", levels.get(1).path("label").asText());
     }
 
     @Test

@@ -14,8 +14,8 @@ import java.util.Optional;
 
 /**
  * A {@link LiveSource} fed by hand the way the daemon feeds its own: records as a parser hands them over
- * (kept in the real bounded {@link RunHistory}), lines read, malformed lines, open conditions and timeline
- * events. Thread-safe by one lock, like the daemon's per-run snapshot.
+ * (kept in the real bounded {@link RunHistory}), lines read, malformed lines, open conditions, timeline
+ * events, the forecasts of the last save and the residual target. Thread-safe by one lock, like the daemon's per-run snapshot.
  */
 final class RecordedRuns implements LiveSource {
 
@@ -30,6 +30,8 @@ final class RecordedRuns implements LiveSource {
         final Map<String, Long> malformed = new LinkedHashMap<>();
         final List<String> open = new ArrayList<>();
         final List<TimelineEvent> events = new ArrayList<>();
+        RunForecast forecast = RunForecast.NONE;
+        double target = Double.NaN;
 
         Run(String name) {
             history = new RunHistory(name, Path.of("unused"));
@@ -63,6 +65,16 @@ final class RecordedRuns implements LiveSource {
         run(name).open.add(pattern);
     }
 
+    /** The forecasts of the run's latest save, as the daemon hands them over. */
+    synchronized void forecast(String name, RunForecast f) {
+        run(name).forecast = f;
+    }
+
+    /** The residual target the run's plot draws its level line at. */
+    synchronized void residualTarget(String name, double target) {
+        run(name).target = target;
+    }
+
     synchronized void event(TimelineEvent e) {
         run(e.run()).events.add(e);
     }
@@ -72,7 +84,8 @@ final class RecordedRuns implements LiveSource {
         List<RunStatus> out = new ArrayList<>();
         runs.forEach((name, r) -> out.add(new RunStatus(name, r.state, r.last == null ? -1 : r.last.iter(),
                 r.last == null ? Map.of() : r.last.residuals().toMap(),
-                r.last == null ? Map.of() : r.last.monitors().toMap(), r.open, r.lines, r.records, r.malformed)));
+                r.last == null ? Map.of() : r.last.monitors().toMap(), r.open, r.lines, r.records, r.malformed,
+                r.forecast)));
         return out;
     }
 
@@ -92,7 +105,7 @@ final class RecordedRuns implements LiveSource {
             return Optional.empty();
         }
         return Optional.of(new RunPlots(r.history.lastIter(), traces(r.history.residuals()),
-                traces(r.history.monitors())));
+                traces(r.history.monitors()), RunPlots.residualLevels(r.target)));
     }
 
     /** The conversion the daemon makes from its history: one point per bucket at the bucket's last iteration. */

@@ -26,7 +26,8 @@ class WatcherMetricsTest {
         for (int i = 0; i < monitors; i++) {
             mon.put("probe-" + i, 10.0 + i);
         }
-        return new RunStatus("rooftop", RunStatus.FOLLOWING, 900, res, mon, List.of(), 900, 900, Map.of());
+        return new RunStatus("rooftop", RunStatus.FOLLOWING, 900, res, mon, List.of(), 900, 900, Map.of(),
+                RunForecast.NONE);
     }
 
     private static LiveSource fixed(RunStatus... s) {

@@ -9,11 +9,13 @@
   var MAX_POINTS = 4000;
   var MAX_MONITOR_PLOTS = 6;
   var MAX_EVENTS = 60;
+  // level lines of the residual plot: neutral greys, apart from the series' colours, each with its own dash
+  var LEVEL_STYLES = [{ stroke: '#7d838c', dash: [2, 3] }, { stroke: '#22303f', dash: [8, 4] }];
 
   var tokenMatch = /[?&]token=([^&]*)/.exec(location.search);
   var token = tokenMatch ? tokenMatch[1] : null;
   var check = { runs: 0, charts: 0, canvases: 0, nonBlank: 0, progress: 0, timeline: 0, livePoints: 0,
-    errors: [] };
+    levels: [], errors: [] };
   window.addEventListener('error', function (e) { check.errors.push(String(e.message)); });
   window.addEventListener('unhandledrejection', function (e) { check.errors.push(String(e.reason)); });
 
@@ -72,6 +74,8 @@
     card.appendChild(conds);
     var values = el('div', 'values');
     card.appendChild(values);
+    var outlook = el('div', 'outlook');
+    card.appendChild(outlook);
     var resPlot = el('div', 'plot');
     resPlot.appendChild(el('h3', null, 'residuals'));
     var resBox = el('div');
@@ -91,7 +95,7 @@
     runsEl.appendChild(card);
     document.getElementById('empty').hidden = true;
     r = { name: status.run, card: card, badge: badge, counts: counts, conds: conds, values: values,
-      resBox: resBox, monPlots: monPlots, events: body, seqs: new Set(), res: null, mons: new Map(),
+      outlook: outlook, resBox: resBox, monPlots: monPlots, events: body, seqs: new Set(), res: null, mons: new Map(),
       loaded: false, status: status };
     runs.set(status.run, r);
     check.runs = runs.size;
@@ -118,6 +122,103 @@
     }
     r.values.replaceChildren(valueTable('equation', 'residual', s.residuals, true),
       valueTable('monitor', 'value', s.monitors, false));
+    showOutlook(r.outlook, s.forecast || {});
+  }
+
+  // --- outlook: the forecasts of the run's last save ------------------------------------------------------
+
+  var STATUS_MARK = { 'reached': '✓', 'converging': '↘', 'not converging': '→', 'unknown': '?' };
+
+  function has(o, k) { return o && o[k] !== undefined && o[k] !== null && isFinite(num(o[k])); }
+
+  function count(v) { return String(Math.round(num(v))); }
+
+  // a wall time in whole seconds as a short text: 45 s, 12 min, 3 h 05 min
+  function span(sec) {
+    var s = Math.round(num(sec));
+    if (s < 120) return s + ' s';
+    var m = Math.round(s / 60);
+    if (m < 120) return m + ' min';
+    var mm = m % 60;
+    return Math.floor(m / 60) + ' h ' + (mm < 10 ? '0' : '') + mm + ' min';
+  }
+
+  // a value with its interval: "640 (590–710)"; the interval only when it differs from the value
+  function withRange(f, key, show) {
+    if (!has(f, key)) return '–';
+    var v = num(f[key]);
+    var text = show(v);
+    if (has(f, key + '_low') && has(f, key + '_high')) {
+      var lo = Math.min(num(f[key + '_low']), num(f[key + '_high']));
+      var hi = Math.max(num(f[key + '_low']), num(f[key + '_high']));
+      if (show(lo) !== text || show(hi) !== text) text += ' (' + show(lo) + '–' + show(hi) + ')';
+    }
+    return text;
+  }
+
+  function row(cells, cls) {
+    var tr = el('tr');
+    cells.forEach(function (c, i) { tr.appendChild(el('td', cls && cls[i] ? cls[i] : null, c)); });
+    return tr;
+  }
+
+  function headRow(names, cls) {
+    var tr = el('tr');
+    names.forEach(function (n, i) { tr.appendChild(el('th', cls && cls[i] ? cls[i] : null, n)); });
+    return tr;
+  }
+
+  function showOutlook(box, f) {
+    var eqs = f.equations || [];
+    var mons = f.monitors || [];
+    var parts = [el('h3', null, 'outlook · last save')];
+    if (eqs.length === 0 && mons.length === 0) {
+      parts.push(el('p', 'none', 'no forecast yet: it comes with the first saved state'));
+      box.replaceChildren.apply(box, parts);
+      return;
+    }
+    if (f.verdict) {
+      var judge = 'convergence judge: ' + f.verdict;
+      if (f.waiting_for && f.waiting_for.length) judge += ' · waiting for ' + f.waiting_for.join(', ');
+      parts.push(el('p', 'judge', judge));
+    }
+    var timed = has(f, 'iterations_per_second');
+    if (eqs.length) {
+      var t = el('table', 'fc-eq');
+      var head = ['equation', 'target', 'outlook', 'iterations to target'];
+      var cls = [null, 'v', null, 'v', 'v'];
+      if (timed) head.push('time to target');
+      t.appendChild(headRow(head, cls));
+      eqs.forEach(function (q) {
+        var st = el('td', 'st', (STATUS_MARK[q.status] || '·') + ' ' + q.status);
+        st.dataset.status = q.status;
+        var iters = q.status === 'reached' ? 'at target' : withRange(q, 'iterations', count);
+        var cells = [q.name, has(q, 'target') ? fmt(q.target, true) : '–'];
+        var tr = row(cells, cls);
+        tr.appendChild(st);
+        tr.appendChild(el('td', 'v', iters));
+        if (timed) tr.appendChild(el('td', 'v', q.status === 'reached' ? 'now' : withRange(q, 'seconds', span)));
+        t.appendChild(tr);
+      });
+      parts.push(t);
+    }
+    if (mons.length) {
+      var m = el('table', 'fc-mon');
+      var mcls = [null, null, 'v', 'v', 'v'];
+      m.appendChild(headRow(['monitor', 'state', 'value', 'predicted final', 'remaining error'], mcls));
+      mons.forEach(function (x) {
+        m.appendChild(row([x.name, x.state || '–', has(x, 'value') ? fmt(x.value) : '–',
+          has(x, 'predicted_final') ? fmt(x.predicted_final) : '–',
+          has(x, 'remaining_error') ? fmt(x.remaining_error) : '–'], mcls));
+      });
+      parts.push(m);
+    }
+    if (timed) {
+      parts.push(el('p', 'rate', 'times at ' + fmt(f.iterations_per_second) + ' iterations/s'
+        + (has(f, 'rate_seconds') ? ', the pace of the last ' + span(f.rate_seconds) : '')
+        + '; ranges are the fit\'s interval only'));
+    }
+    box.replaceChildren.apply(box, parts);
   }
 
   function valueTable(what, col, map, sci) {
@@ -172,7 +273,62 @@
     return data;
   }
 
-  function makePlot(box, names, data, log, height) {
+  // horizontal level lines with their labels, over the plotting area, after the series are drawn
+  function drawLevels(u, levels, drawnOut) {
+    drawnOut.length = 0;
+    if (!levels || levels.length === 0) return;
+    var ctx = u.ctx;
+    var b = u.bbox;
+    var px = window.devicePixelRatio || 1;
+    ctx.save();
+    ctx.beginPath();
+    ctx.rect(b.left, b.top, b.width, b.height);
+    ctx.clip();
+    levels.forEach(function (l, i) {
+      var v = num(l.value);
+      var y = u.valToPos(v, 'y', true);
+      if (!isFinite(y) || y < b.top || y > b.top + b.height) return;
+      y = Math.round(y) + 0.5;
+      var st = LEVEL_STYLES[i % LEVEL_STYLES.length];
+      ctx.strokeStyle = st.stroke;
+      ctx.lineWidth = px;
+      ctx.setLineDash(st.dash.map(function (d) { return d * px; }));
+      ctx.beginPath();
+      ctx.moveTo(b.left, y);
+      ctx.lineTo(b.left + b.width, y);
+      ctx.stroke();
+      ctx.setLineDash([]);
+      ctx.font = Math.round(11 * px) + 'px system-ui, sans-serif';
+      ctx.textAlign = 'right';
+      ctx.textBaseline = 'bottom';
+      var right = b.left + b.width - 4 * px;
+      var tw = ctx.measureText(l.label).width;
+      // a pale ground under the label, so a series passing behind it does not hide it
+      ctx.fillStyle = 'rgba(255, 255, 255, 0.85)';
+      ctx.fillRect(right - tw - 2 * px, y - 14 * px, tw + 4 * px, 12 * px);
+      ctx.fillStyle = st.stroke;
+      ctx.fillText(l.label, right, y - 2 * px);
+      drawnOut.push({ label: l.label, value: v, y: y, stroke: st.stroke });
+    });
+    ctx.restore();
+  }
+
+  // a log scale that always shows the level lines, so the distance to them reads at a glance; a line keeps a
+  // margin from the plot's edge (a line on the axis would hide in it)
+  function levelRange(levels) {
+    return function (u, min, max) {
+      (levels || []).forEach(function (l) {
+        var v = num(l.value);
+        if (!(v > 0)) return;
+        min = min === null || min === undefined ? v / 2 : Math.min(min, v / 2);
+        max = max === null || max === undefined ? v * 2 : Math.max(max, v * 2);
+      });
+      if (min === null || min === undefined) return [min, max];
+      return uPlot.rangeLog(min, max, 10, false);
+    };
+  }
+
+  function makePlot(box, names, data, log, height, levels) {
     var width = Math.max(300, box.clientWidth || 520);
     var series = [{ label: 'iteration' }];
     names.forEach(function (n, i) {
@@ -182,18 +338,20 @@
     });
     var opts = {
       width: width, height: height,
-      scales: { x: { time: false }, y: log ? { distr: 3 } : {} },
+      scales: { x: { time: false }, y: log ? { distr: 3, range: levelRange(levels) } : {} },
       axes: [{ label: 'iteration' }, { size: 64, values: function (u, vals) {
         return vals.map(function (v) { return v === null ? '' : fmt(v, log); });
       } }],
       series: series,
       cursor: { drag: { x: true, y: false } },
-      legend: { show: names.length > 1, live: true }
+      legend: { show: names.length > 1, live: true },
+      hooks: { draw: [function (u) { drawLevels(u, levels, drawnLevels); }] }
     };
+    var drawnLevels = [];
     box.replaceChildren();
     var plot = new uPlot(opts, data, box);
     check.charts++;
-    return { plot: plot, names: names.slice(), data: data, log: log };
+    return { plot: plot, names: names.slice(), data: data, log: log, levels: drawnLevels };
   }
 
   function buildPlots(r, p) {
@@ -202,7 +360,8 @@
     r.mons = new Map();
     r.monPlots.replaceChildren();
     if (p.residuals.length > 0) {
-      r.res = makePlot(r.resBox, p.residuals.map(function (t) { return t.name; }), align(p.residuals, true), true, 240);
+      r.res = makePlot(r.resBox, p.residuals.map(function (t) { return t.name; }), align(p.residuals, true), true, 240,
+        p.residualLevels || []);
     } else {
       r.resBox.replaceChildren(el('p', 'none', 'no residuals yet'));
     }
@@ -343,10 +502,39 @@
     return n;
   }
 
+  // pixels of a level line's colour along its row of the plot's canvas
+  function levelPixels(u, level) {
+    var c = u.ctx.canvas;
+    var b = u.bbox;
+    var w = Math.round(b.width);
+    var y = Math.floor(level.y);
+    if (!c.width || w < 1 || y < 0 || y >= c.height) return 0;
+    var copy = document.createElement('canvas');
+    copy.width = w;
+    copy.height = 1;
+    var cx = copy.getContext('2d', { willReadFrequently: true });
+    cx.drawImage(c, Math.round(b.left), y, w, 1, 0, 0, w, 1);
+    var img = cx.getImageData(0, 0, w, 1).data;
+    var want = [parseInt(level.stroke.substr(1, 2), 16), parseInt(level.stroke.substr(3, 2), 16),
+      parseInt(level.stroke.substr(5, 2), 16)];
+    var n = 0;
+    for (var i = 0; i < img.length; i += 4) {
+      if (img[i + 3] >= 200 && Math.abs(img[i] - want[0]) + Math.abs(img[i + 1] - want[1])
+        + Math.abs(img[i + 2] - want[2]) < 30) n++;
+    }
+    return n;
+  }
+
   function selfCheck() {
     var canvases = 0;
     var nonBlank = 0;
+    var levels = [];
     runs.forEach(function (r) {
+      if (r.res) {
+        r.res.levels.forEach(function (l) {
+          levels.push({ run: r.name, label: l.label, value: l.value, pixels: levelPixels(r.res.plot, l) });
+        });
+      }
       var plots = [];
       if (r.res) plots.push(r.res.plot);
       r.mons.forEach(function (m) { plots.push(m.plot); });
@@ -357,6 +545,7 @@
     });
     check.canvases = canvases;
     check.nonBlank = nonBlank;
+    check.levels = levels;
     var out = document.getElementById('self-check');
     out.textContent = JSON.stringify(check);
     out.dataset.done = '1';

@@ -22,8 +22,11 @@ public final class Detectors {
         all.add(new SingleEquationBlowupDetector(settings, logs));
         all.add(new FamilyDivergenceDetector(settings, logs));
         all.add(new StalledOscillationDetector(settings));
-        all.add(new RisingPeaksDetector(settings));
-        all.add(new InnerStallDetector(settings));
+        // the two unsteady detectors split the run into time steps once (each keeps its own splitter when
+        // their jump_decades differ)
+        TimeSteps steps = TimeSteps.shared(RisingPeaksDetector.jumpDecades(settings));
+        all.add(new RisingPeaksDetector(settings, steps));
+        all.add(new InnerStallDetector(settings, steps));
         all.add(new MonitorSettledDetector(settings));
         all.add(new MonitorPeriodicDetector(settings));
         all.add(new ConvergedDetector(settings));

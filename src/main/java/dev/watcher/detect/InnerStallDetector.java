@@ -5,6 +5,7 @@ import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
 import dev.watcher.model.IterationRecord;
 import dev.watcher.model.Patterns;
+import dev.watcher.model.Samples;
 import dev.watcher.model.Severity;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -25,6 +26,9 @@ import java.util.function.Consumer;
  * floor_level} (1e-5, the usual residual target), {@code resolve_drop_decades} (1.0: the median drop must
  * recover to this before the condition resolves), {@code clear_steps} (3), {@code jump_decades} (1.0, for
  * logs without step or inner fields).
+ *
+ * <p>Cost: nothing per record beyond the step splitting (which {@link Detectors#standard} shares with {@code
+ * rising-peaks}); O(steps) per finished step and equation.
  */
 final class InnerStallDetector implements Detector {
 
@@ -37,20 +41,42 @@ final class InnerStallDetector implements Detector {
     private final double resolveDrop;
     private final int clearSteps;
     private final TimeSteps steps;
-    private final Map<String, RollingWindow> drops = new LinkedHashMap<>();
-    private final Map<String, RollingWindow> floors = new LinkedHashMap<>();
+    private final PerName<Eq> eqs;
+    // equations in the order of their first usable step in the segment
+    private final List<Eq> ordered = new ArrayList<>();
+    private final double[] scratch;
     private List<String> openEquations = List.of();
     private int quiet;
     private int segmentSeen;
 
+    /** One equation's drops (decades) and floors (log10) over the last steps. */
+    private final class Eq {
+        final String name;
+        final RollingWindow drops = new RollingWindow(window);
+        final RollingWindow floors = new RollingWindow(window);
+        boolean listed;
+
+        Eq(String name) {
+            this.name = name;
+        }
+    }
+
     InnerStallDetector(DetectSettings s) {
+        this(s, null);
+    }
+
+    /** With the run's shared step splitter, used when its jump threshold is this detector's. */
+    InnerStallDetector(DetectSettings s, TimeSteps shared) {
         String p = Patterns.INNER_STALL + ".";
         this.window = Math.max(2, s.integer(p + "steps", 5));
         this.minDrop = s.number(p + "min_drop_decades", 0.5);
         this.floorLevel = Math.log10(s.number(p + "floor_level", 1e-5));
         this.resolveDrop = s.number(p + "resolve_drop_decades", 1.0);
         this.clearSteps = Math.max(1, s.integer(p + "clear_steps", 3));
-        this.steps = new TimeSteps(s.number(p + "jump_decades", 1.0));
+        double jump = s.number(p + "jump_decades", 1.0);
+        this.steps = shared != null && shared.jumpDecades() == jump ? shared : new TimeSteps(jump);
+        this.eqs = new PerName<>(Eq::new);
+        this.scratch = new double[window];
     }
 
     @Override
@@ -59,44 +85,60 @@ final class InnerStallDetector implements Detector {
             segment(record.segment(), record.iter(), out);
         }
         TimeSteps.Step step = steps.accept(record);
-        if (step == null || !steps.unsteady() || step.records() < 2) {
+        if (step == null || step.records() < 2 || !steps.unsteady()) {
             return;
         }
-        step.peak().forEach((eq, pk) -> {
-            Double fl = step.floor().get(eq);
-            if (fl != null && pk > 0 && fl > 0 && Double.isFinite(pk) && Double.isFinite(fl)) {
-                drops.computeIfAbsent(eq, k -> new RollingWindow(window)).add(Math.log10(pk) - Math.log10(fl));
-                floors.computeIfAbsent(eq, k -> new RollingWindow(window)).add(Math.log10(fl));
+        Samples peaks = step.peaks();
+        Samples floors = step.floors();
+        boolean aligned = peaks.names() == floors.names();
+        List<Eq> slots = eqs.slots(peaks.names());
+        for (int i = 0; i < peaks.size(); i++) {
+            double pk = peaks.value(i);
+            double fl = aligned ? floors.value(i) : floors.get(peaks.name(i), Double.NaN);
+            if (pk > 0 && fl > 0 && pk < Double.POSITIVE_INFINITY && fl < Double.POSITIVE_INFINITY) {
+                Eq e = slots.get(i);
+                double lf = Math.log10(fl);
+                e.drops.add(Math.log10(pk) - lf);
+                e.floors.add(lf);
+                if (!e.listed) {
+                    e.listed = true;
+                    ordered.add(e);
+                }
             }
-        });
+        }
         judge(step.lastIter(), out);
     }
 
     private void judge(long iter, Consumer<Detection> out) {
-        List<String> stalled = new ArrayList<>();
-        List<String> relaxed = new ArrayList<>();
+        List<String> stalled = null;
+        List<String> relaxed = null;
         String worst = null;
         double worstDrop = Double.POSITIVE_INFINITY;
-        for (String eq : drops.keySet()) {
-            RollingWindow d = drops.get(eq);
-            if (d.size() < window) {
+        for (Eq e : ordered) {
+            if (e.drops.size() < window) {
                 continue;
             }
-            double md = median(d.toArray());
-            double mf = median(floors.get(eq).toArray());
+            double md = median(e.drops);
+            double mf = median(e.floors);
             if (md < minDrop && mf > floorLevel) {
-                stalled.add(eq);
+                if (stalled == null) {
+                    stalled = new ArrayList<>();
+                }
+                stalled.add(e.name);
                 if (md < worstDrop) {
                     worstDrop = md;
-                    worst = eq;
+                    worst = e.name;
                 }
             }
             if (md < resolveDrop && mf > floorLevel) {
-                relaxed.add(eq);
+                if (relaxed == null) {
+                    relaxed = new ArrayList<>();
+                }
+                relaxed.add(e.name);
             }
         }
         if (openEquations.isEmpty()) {
-            if (!stalled.isEmpty()) {
+            if (stalled != null) {
                 openEquations = List.copyOf(stalled);
                 quiet = 0;
                 out.accept(new Detection(Patterns.INNER_STALL, DetectionState.OPEN, Severity.WARNING, iter,
@@ -110,8 +152,10 @@ final class InnerStallDetector implements Detector {
             return;
         }
         boolean still = false;
-        for (String eq : openEquations) {
-            still |= relaxed.contains(eq);
+        if (relaxed != null) {
+            for (String eq : openEquations) {
+                still |= relaxed.contains(eq);
+            }
         }
         quiet = still ? 0 : quiet + 1;
         if (quiet >= clearSteps) {
@@ -123,37 +167,43 @@ final class InnerStallDetector implements Detector {
         }
     }
 
-    private Map<String, Object> evidence(String eq) {
+    private Map<String, Object> evidence(String name) {
         Map<String, Object> e = new LinkedHashMap<>();
-        RollingWindow d = drops.get(eq);
-        RollingWindow f = floors.get(eq);
-        e.put("equation", eq);
-        if (d == null || d.size() == 0) {
+        Eq q = eqs.get(name);
+        e.put("equation", name);
+        if (q == null || q.drops.size() == 0) {
             return EvidenceNames.finite(e);
         }
-        e.put("median_drop_decades", EvidenceNames.round(median(d.toArray())));
+        RollingWindow d = q.drops;
+        RollingWindow f = q.floors;
+        e.put("median_drop_decades", EvidenceNames.round(median(d)));
         e.put("first_drop_decades", EvidenceNames.round(d.get(0)));
         e.put("last_drop_decades", EvidenceNames.round(d.last()));
-        e.put("median_floor", EvidenceNames.round(Math.pow(10, median(f.toArray()))));
+        e.put("median_floor", EvidenceNames.round(Math.pow(10, median(f))));
         e.put("floor_rise_decades", EvidenceNames.round(f.last() - f.get(0)));
         e.put("steps", d.size());
         e.put("step_basis", steps.basis());
         return EvidenceNames.finite(e);
     }
 
-    private static double median(double[] v) {
-        double[] c = v.clone();
-        Arrays.sort(c);
-        int n = c.length;
+    /** The median of a window's values (sorted in a scratch copy). */
+    private double median(RollingWindow w) {
+        double[] c = scratch;
+        int n = w.copyTo(c);
+        Arrays.sort(c, 0, n);
         return (n & 1) == 1 ? c[n / 2] : 0.5 * (c[n / 2 - 1] + c[n / 2]);
     }
 
     @Override
     public void segment(int segment, long iter, Consumer<Detection> out) {
         segmentSeen = segment;
-        steps.reset();
-        drops.clear();
-        floors.clear();
+        steps.segment(segment);
+        for (Eq e : ordered) {
+            e.drops.clear();
+            e.floors.clear();
+            e.listed = false;
+        }
+        ordered.clear();
     }
 
     /** {@code open_equations} and per equation the median drop (decades) over the judged steps. */
@@ -162,7 +212,9 @@ final class InnerStallDetector implements Detector {
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("open_equations", openEquations);
         Map<String, Object> eq = new LinkedHashMap<>();
-        drops.forEach((k, d) -> eq.put(k, Map.of("median_drop_decades", median(d.toArray()))));
+        for (Eq e : ordered) {
+            eq.put(e.name, Map.of("median_drop_decades", median(e.drops)));
+        }
         m.put("equations", eq);
         return EvidenceNames.finite(m);
     }

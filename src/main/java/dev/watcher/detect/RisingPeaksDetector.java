@@ -1,6 +1,5 @@
 package dev.watcher.detect;
 
-import dev.watcher.detect.stats.Periodogram;
 import dev.watcher.detect.stats.QuadraticFit;
 import dev.watcher.detect.stats.RollingWindow;
 import dev.watcher.detect.stats.SeasonalKendall;
@@ -8,6 +7,7 @@ import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
 import dev.watcher.model.IterationRecord;
 import dev.watcher.model.Patterns;
+import dev.watcher.model.Samples;
 import dev.watcher.model.Severity;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -30,14 +30,22 @@ import java.util.function.Consumer;
  * before judging (10), {@code alpha} one-sided (0.01), {@code min_slope_decades_per_step} (0.02), {@code
  * min_rise_decades} over the judged steps (0.3), {@code period_acf} autocorrelation that makes a lag a period
  * (0.4), {@code history_steps} kept for the period check (256), {@code min_level} below which peaks are round-off and never called rising (1e-10),
- * {@code min_end_slope_ratio} below which a levelling-off climb is not called rising (0.5), {@code jump_decades} for splitting logs without step or inner fields (1.0), {@code resolve_alpha}
- * (0.1) and {@code clear_steps} (3): the condition resolves after that many consecutive steps in which no
- * named equation still rises even at the relaxed level (p below resolve_alpha with half the slope floor).
+ * {@code min_end_slope_ratio} below which a levelling-off climb is not called rising (0.5), {@code
+ * jump_decades} for splitting logs without step or inner fields (1.0), {@code resolve_alpha} (0.1) and {@code
+ * clear_steps} (3): the condition resolves after that many consecutive steps in which no named equation still
+ * rises even at the relaxed level (p below resolve_alpha with half the slope floor).
+ *
+ * <p>Cost: nothing per record beyond the step splitting (which {@link Detectors#standard} shares with {@code
+ * inner-stall}). Per finished step and equation: the Mann–Kendall statistic, O(steps^2), or O(n^2 / P) over
+ * the whole periods compared; the Sen slope only when the p-value is small; and the period search over the
+ * kept history (O(history_steps) per lag examined, stopping at the first period) every {@value
+ * #PERIOD_EVERY} steps while the history fills, every history_steps / 8 steps once it is full.
  */
 final class RisingPeaksDetector implements Detector {
 
     private static final String REMEDY = "The time step is too large or there are too few inner iterations per step: "
             + "reduce the time step or add inner iterations.";
+    private static final int PERIOD_EVERY = 8;
 
     private final int window;
     private final int minSteps;
@@ -51,16 +59,47 @@ final class RisingPeaksDetector implements Detector {
     private final int historySteps;
     private final double minLevel;
     private final double minEndRatio;
-    private final Map<String, RollingWindow> peaks = new LinkedHashMap<>();
-    private final Map<String, RollingWindow> history = new LinkedHashMap<>();
-    private final Map<String, int[]> periods = new LinkedHashMap<>();
-    private static final int PERIOD_EVERY = 8;
-    private final Map<String, SeasonalKendall> lastTest = new LinkedHashMap<>();
+    private final PerName<Eq> eqs;
+    // equations in the order of their first peak in the segment, and in the order of their first judgement
+    private final List<Eq> ordered = new ArrayList<>();
+    private final List<Eq> judged = new ArrayList<>();
+    private final double[] recentBuf;
+    private final double[] historyBuf;
+    private final double[] tailBuf;
+    private final double[] detrendBuf;
     private List<String> openEquations = List.of();
     private int quiet;
     private int segmentSeen;
 
+    /** The per-equation state: recent and longer peaks (log10), the cached period and the latest test. */
+    private final class Eq {
+        final String name;
+        final RollingWindow peaks = new RollingWindow(window);
+        final RollingWindow history = new RollingWindow(historySteps);
+        boolean listed;
+        int period = 1;
+        int periodCalls;
+        SeasonalKendall lastTest;
+
+        Eq(String name) {
+            this.name = name;
+        }
+
+        void clear() {
+            peaks.clear();
+            history.clear();
+            listed = false;
+            period = 1;
+            periodCalls = 0;
+        }
+    }
+
     RisingPeaksDetector(DetectSettings s) {
+        this(s, null);
+    }
+
+    /** With the run's shared step splitter, used when its jump threshold is this detector's. */
+    RisingPeaksDetector(DetectSettings s, TimeSteps shared) {
         String p = Patterns.RISING_PEAKS + ".";
         this.window = Math.max(10, Math.min(30, s.integer(p + "steps", 20)));
         this.minSteps = Math.max(5, Math.min(window, s.integer(p + "min_steps", 10)));
@@ -70,10 +109,21 @@ final class RisingPeaksDetector implements Detector {
         this.periodAcf = s.number(p + "period_acf", 0.4);
         this.resolveAlpha = s.number(p + "resolve_alpha", 0.1);
         this.clearSteps = Math.max(1, s.integer(p + "clear_steps", 3));
-        this.steps = new TimeSteps(s.number(p + "jump_decades", 1.0));
+        double jump = jumpDecades(s);
+        this.steps = shared != null && shared.jumpDecades() == jump ? shared : new TimeSteps(jump);
         this.historySteps = Math.max(2 * window, s.integer(p + "history_steps", 256));
         this.minLevel = Math.log10(s.number(p + "min_level", 1e-10));
         this.minEndRatio = s.number(p + "min_end_slope_ratio", 0.5);
+        this.eqs = new PerName<>(Eq::new);
+        this.recentBuf = new double[window];
+        this.historyBuf = new double[historySteps];
+        this.tailBuf = new double[historySteps];
+        this.detrendBuf = new double[historySteps];
+    }
+
+    /** {@code rising-peaks.jump_decades}: the jump that splits logs without step or inner fields into steps. */
+    static double jumpDecades(DetectSettings s) {
+        return s.number(Patterns.RISING_PEAKS + ".jump_decades", 1.0);
     }
 
     @Override
@@ -85,44 +135,62 @@ final class RisingPeaksDetector implements Detector {
         if (step == null || !steps.unsteady()) {
             return;
         }
-        step.peak().forEach((eq, v) -> {
-            if (v > 0 && Double.isFinite(v)) {
-                peaks.computeIfAbsent(eq, k -> new RollingWindow(window)).add(Math.log10(v));
-                history.computeIfAbsent(eq, k -> new RollingWindow(historySteps)).add(Math.log10(v));
+        Samples peaks = step.peaks();
+        List<Eq> slots = eqs.slots(peaks.names());
+        for (int i = 0; i < peaks.size(); i++) {
+            double v = peaks.value(i);
+            if (v > 0 && v < Double.POSITIVE_INFINITY) {
+                Eq e = slots.get(i);
+                double l = Math.log10(v);
+                e.peaks.add(l);
+                e.history.add(l);
+                if (!e.listed) {
+                    e.listed = true;
+                    ordered.add(e);
+                }
             }
-        });
+        }
         judge(step, out);
     }
 
     private void judge(TimeSteps.Step step, Consumer<Detection> out) {
-        List<String> rising = new ArrayList<>();
-        List<String> relaxed = new ArrayList<>();
+        List<String> rising = null;
+        List<String> relaxed = null;
         SeasonalKendall worst = null;
         String worstEq = null;
-        for (Map.Entry<String, RollingWindow> e : peaks.entrySet()) {
-            RollingWindow w = e.getValue();
+        for (Eq e : ordered) {
+            RollingWindow w = e.peaks;
             if (w.size() < minSteps) {
                 continue;
             }
-            SeasonalKendall t = test(e.getKey(), w, history.get(e.getKey()));
-            lastTest.put(e.getKey(), t);
+            SeasonalKendall t = test(e);
+            if (e.lastTest == null) {
+                judged.add(e);
+            }
+            e.lastTest = t;
             int n = t.n();
             boolean up = t.pIncreasing() < alpha && t.slope() >= minSlope && t.slope() * (n - 1) >= minRise
                     && w.last() > minLevel && !saturating(t, w);
             if (up) {
-                rising.add(e.getKey());
+                if (rising == null) {
+                    rising = new ArrayList<>();
+                }
+                rising.add(e.name);
                 if (worst == null || t.slope() > worst.slope()) {
                     worst = t;
-                    worstEq = e.getKey();
+                    worstEq = e.name;
                 }
             }
             if (t.pIncreasing() < resolveAlpha && t.slope() >= minSlope / 2) {
-                relaxed.add(e.getKey());
+                if (relaxed == null) {
+                    relaxed = new ArrayList<>();
+                }
+                relaxed.add(e.name);
             }
         }
         long iter = step.lastIter();
         if (openEquations.isEmpty()) {
-            if (!rising.isEmpty()) {
+            if (rising != null) {
                 openEquations = List.copyOf(rising);
                 quiet = 0;
                 out.accept(new Detection(Patterns.RISING_PEAKS, DetectionState.OPEN, Severity.WARNING, iter,
@@ -136,12 +204,15 @@ final class RisingPeaksDetector implements Detector {
             return;
         }
         boolean still = false;
-        for (String eq : openEquations) {
-            still |= relaxed.contains(eq);
+        if (relaxed != null) {
+            for (String eq : openEquations) {
+                still |= relaxed.contains(eq);
+            }
         }
         quiet = still ? 0 : quiet + 1;
         if (quiet >= clearSteps) {
-            SeasonalKendall t = lastTest.get(openEquations.get(0));
+            Eq first = eqs.get(openEquations.get(0));
+            SeasonalKendall t = first == null ? null : completed(first);
             out.accept(new Detection(Patterns.RISING_PEAKS, DetectionState.RESOLVED, Severity.WARNING, iter,
                     openEquations, null, "residual peaks no longer climb from step to step", REMEDY,
                     t == null ? Map.of() : evidence(openEquations.get(0), t)));
@@ -153,27 +224,66 @@ final class RisingPeaksDetector implements Detector {
     /**
      * The trend test of one equation's peaks. When the longer history shows a period P (the first peak of
      * the autocorrelation of the detrended log peaks above {@code period_acf}, with at least two whole periods
-     * seen), the test compares whole periods: the seasonal Kendall test over the last whole periods (at most eight). Otherwise the last
-     * {@code steps} peaks are tested, with a period taken from their own autocorrelation when one shows.
+     * seen), the test compares whole periods: the seasonal Kendall test over the last whole periods (at most
+     * eight). Otherwise the last {@code steps} peaks are tested, with a period taken from their own
+     * autocorrelation when one shows. The Sen slope, the costly part, is taken only when the p-value is below
+     * {@code alpha} or {@code resolve_alpha} (otherwise neither decision reads it; it is NaN until asked for,
+     * see {@link #completed}).
      */
-    private SeasonalKendall test(String eq, RollingWindow recent, RollingWindow longer) {
-        double[] h = longer.toArray();
-        if (h.length > recent.size()) {
-            // the period of the long history is re-estimated every PERIOD_EVERY steps (O(n^2/2) each time)
-            int[] cached = periods.computeIfAbsent(eq, k -> new int[] {1, 0});
-            if (cached[1]++ % PERIOD_EVERY == 0) {
-                cached[0] = period(h, h.length, h.length / 2);
+    private SeasonalKendall test(Eq e) {
+        RollingWindow recent = e.peaks;
+        RollingWindow longer = e.history;
+        double[] y;
+        int n;
+        int period;
+        if (longer.size() > recent.size()) {
+            double[] h = historyBuf;
+            int hn = longer.copyTo(h);
+            // the period of the long history is re-estimated every PERIOD_EVERY steps while the history fills,
+            // then every history_steps / 8 steps (a period is a slow property of the flow)
+            int every = longer.full() ? Math.max(PERIOD_EVERY, historySteps / 8) : PERIOD_EVERY;
+            if (e.periodCalls++ % every == 0) {
+                e.period = period(h, hn, hn / 2);
             }
-            int period = cached[0];
-            if (period >= 2 && 2 * period <= h.length) {
-                int k = Math.min(8, h.length / period);
-                int n = k * period;
-                double[] y = java.util.Arrays.copyOfRange(h, h.length - n, h.length);
-                return SeasonalKendall.of(y, n, period);
+            period = e.period;
+            if (period >= 2 && 2 * period <= hn) {
+                int k = Math.min(8, hn / period);
+                n = k * period;
+                y = tailBuf;
+                System.arraycopy(h, hn - n, y, 0, n);
+                return slopeIfNeeded(SeasonalKendall.test(y, n, period), y);
             }
         }
-        double[] y = recent.toArray();
-        return SeasonalKendall.of(y, y.length, period(y, y.length, y.length / 3));
+        y = recentBuf;
+        n = recent.copyTo(y);
+        period = period(y, n, n / 3);
+        return slopeIfNeeded(SeasonalKendall.test(y, n, period), y);
+    }
+
+    private SeasonalKendall slopeIfNeeded(SeasonalKendall t, double[] y) {
+        if (t.pIncreasing() < alpha || t.pIncreasing() < resolveAlpha) {
+            return t.withSlope(SeasonalKendall.slope(y, t.n(), t.period()));
+        }
+        return t;
+    }
+
+    /**
+     * The equation's latest test with its slope (taken now when it was skipped): the test covered the last
+     * {@code n} peaks of the kept history, which have not changed since, unless a segment started.
+     */
+    private SeasonalKendall completed(Eq e) {
+        SeasonalKendall t = e.lastTest;
+        if (t != null && Double.isNaN(t.slope()) && e.history.size() >= t.n()) {
+            RollingWindow h = e.history;
+            double[] y = tailBuf;
+            int from = h.size() - t.n();
+            for (int i = 0; i < t.n(); i++) {
+                y[i] = h.get(from + i);
+            }
+            t = t.withSlope(SeasonalKendall.slope(y, t.n(), t.period()));
+            e.lastTest = t;
+        }
+        return t;
     }
 
     /**
@@ -186,8 +296,9 @@ final class RisingPeaksDetector implements Detector {
         if (t.period() > 1) {
             return false;
         }
-        double[] y = w.toArray();
-        QuadraticFit q = QuadraticFit.of(y, y.length);
+        double[] y = recentBuf;
+        int n = w.copyTo(y);
+        QuadraticFit q = QuadraticFit.of(y, n);
         return q.slopeEnd() < minEndRatio * t.slope();
     }
 
@@ -207,12 +318,56 @@ final class RisingPeaksDetector implements Detector {
             sxx += (i - mt) * (i - mt);
         }
         double slope = sxx > 0 ? sxy / sxx : 0;
-        double[] d = new double[n];
+        double[] d = detrendBuf;
         for (int i = 0; i < n; i++) {
             d[i] = y[i] - slope * (i - mt);
         }
-        int lag = Periodogram.firstAutocorrelationPeak(d, n, 2, maxLag, periodAcf);
+        int lag = firstAutocorrelationPeak(d, n, 2, maxLag, periodAcf);
         return lag < 2 ? 1 : lag;
+    }
+
+    /**
+     * The first local maximum of the sample autocorrelation of {@code x[0..n)} in lags [minLag, maxLag] above
+     * {@code threshold}, or -1: the same lag as {@code Periodogram.firstAutocorrelationPeak}, found lag by lag
+     * and stopped at the first one (O(n) per lag examined, nothing allocated).
+     */
+    private static int firstAutocorrelationPeak(double[] x, int n, int minLag, int maxLag, double threshold) {
+        int hi = Math.min(maxLag, n - 2);
+        if (hi < Math.max(1, minLag)) {
+            return -1;
+        }
+        double mean = 0;
+        for (int i = 0; i < n; i++) {
+            mean += x[i];
+        }
+        mean /= n;
+        double den = 0;
+        for (int i = 0; i < n; i++) {
+            den += (x[i] - mean) * (x[i] - mean);
+        }
+        if (den == 0) {
+            return -1;
+        }
+        int from = Math.max(1, minLag);
+        double before = acf(x, n, mean, den, from - 1);
+        double at = acf(x, n, mean, den, from);
+        for (int lag = from; lag <= hi; lag++) {
+            double after = acf(x, n, mean, den, lag + 1);
+            if (at > threshold && at >= before && at >= after) {
+                return lag;
+            }
+            before = at;
+            at = after;
+        }
+        return -1;
+    }
+
+    private static double acf(double[] x, int n, double mean, double den, int lag) {
+        double num = 0;
+        for (int i = 0; i + lag < n; i++) {
+            num += (x[i] - mean) * (x[i + lag] - mean);
+        }
+        return num / den;
     }
 
     private Map<String, Object> evidence(String eq, SeasonalKendall t) {
@@ -233,10 +388,12 @@ final class RisingPeaksDetector implements Detector {
     @Override
     public void segment(int segment, long iter, Consumer<Detection> out) {
         segmentSeen = segment;
-        steps.reset();
-        peaks.clear();
-        history.clear();
-        periods.clear();
+        steps.segment(segment);
+        for (Eq e : eqs.all().values()) {
+            completed(e); // the snapshot keeps the latest test of each equation
+            e.clear();
+        }
+        ordered.clear();
     }
 
     /** {@code step_basis}, {@code steps_seen}, {@code open_equations}, and per equation the latest slope and p-value. */
@@ -247,8 +404,11 @@ final class RisingPeaksDetector implements Detector {
         m.put("steps_seen", steps.count());
         m.put("open_equations", openEquations);
         Map<String, Object> eq = new LinkedHashMap<>();
-        lastTest.forEach((k, t) -> eq.put(k, Map.of("slope_decades_per_step", t.slope(), "p_value", t.pIncreasing(),
-                "period_steps", t.period())));
+        for (Eq e : judged) {
+            SeasonalKendall t = completed(e);
+            eq.put(e.name, Map.of("slope_decades_per_step", t.slope(), "p_value", t.pIncreasing(),
+                    "period_steps", t.period()));
+        }
         m.put("equations", eq);
         return EvidenceNames.finite(m);
     }

@@ -24,12 +24,20 @@ import java.util.function.Consumer;
  * certain but negligible rise does not alarm. Periodic flows make the peaks periodic: when the detrended
  * peaks show an autocorrelation peak at a lag P, the test compares whole periods (the seasonal Kendall test
  * with period P, each step against the same phase of other periods), so a pattern that only repeats is not
- * called rising.
+ * called rising. Before two whole periods are on record no period can show, and the rising half of a slow
+ * oscillation looks like a trend; and a period that shows may be a faster one than the oscillation that
+ * climbs. So a climb must also lead above the peaks seen before it started: the latest peak must exceed by
+ * {@code above_seen_decades} the highest peak of the kept history ({@code history_steps}) before the lowest
+ * peak of the judged steps. A periodic component brings the peaks back to levels already seen; the peaks of
+ * a time step that is too large keep climbing past them. The first climb of a segment that starts from rest
+ * (peaks climbing from the first steps to a level never seen before) cannot be told from the start of a
+ * blow-up by the peaks alone: it may open, and resolves when the climb stops.
  *
  * <p>Parameters ({@code rising-peaks.}): {@code steps} judged (20, kept within 10..30), {@code min_steps}
  * before judging (10), {@code alpha} one-sided (0.01), {@code min_slope_decades_per_step} (0.02), {@code
  * min_rise_decades} over the judged steps (0.3), {@code period_acf} autocorrelation that makes a lag a period
- * (0.4), {@code history_steps} kept for the period check (256), {@code min_level} below which peaks are round-off and never called rising (1e-10),
+ * (0.4), {@code history_steps} kept for the period check and the levels seen (256), {@code above_seen_decades}
+ * (0.3, a factor of two), {@code min_level} below which peaks are round-off and never called rising (1e-10),
  * {@code min_end_slope_ratio} below which a levelling-off climb is not called rising (0.5), {@code
  * jump_decades} for splitting logs without step or inner fields (1.0), {@code resolve_alpha} (0.1) and {@code
  * clear_steps} (3): the condition resolves after that many consecutive steps in which no named equation still
@@ -57,6 +65,7 @@ final class RisingPeaksDetector implements Detector {
     private final int clearSteps;
     private final TimeSteps steps;
     private final int historySteps;
+    private final double aboveSeen;
     private final double minLevel;
     private final double minEndRatio;
     private final PerName<Eq> eqs;
@@ -112,6 +121,7 @@ final class RisingPeaksDetector implements Detector {
         double jump = jumpDecades(s);
         this.steps = shared != null && shared.jumpDecades() == jump ? shared : new TimeSteps(jump);
         this.historySteps = Math.max(2 * window, s.integer(p + "history_steps", 256));
+        this.aboveSeen = s.number(p + "above_seen_decades", 0.3);
         this.minLevel = Math.log10(s.number(p + "min_level", 1e-10));
         this.minEndRatio = s.number(p + "min_end_slope_ratio", 0.5);
         this.eqs = new PerName<>(Eq::new);
@@ -170,7 +180,7 @@ final class RisingPeaksDetector implements Detector {
             e.lastTest = t;
             int n = t.n();
             boolean up = t.pIncreasing() < alpha && t.slope() >= minSlope && t.slope() * (n - 1) >= minRise
-                    && w.last() > minLevel && !saturating(t, w);
+                    && w.last() > minLevel && !saturating(t, w) && !withinSeen(e);
             if (up) {
                 if (rising == null) {
                     rising = new ArrayList<>();
@@ -300,6 +310,32 @@ final class RisingPeaksDetector implements Detector {
         int n = w.copyTo(y);
         QuadraticFit q = QuadraticFit.of(y, n);
         return q.slopeEnd() < minEndRatio * t.slope();
+    }
+
+    /**
+     * A climb that does not lead above the peaks seen before it is what a periodic component of the peaks
+     * explains: true when the latest peak is below the highest peak kept from before the judged steps' lowest
+     * one plus {@code above_seen_decades}. Applied whatever period was found: a short period (even a spurious
+     * one, such as the alternation of a decaying start-up mode) says nothing of a slower oscillation, and a
+     * steady climb past the recent steps satisfies it anyway once it has risen {@code min_rise_decades}.
+     * O(history_steps), and only for a climb that passes every other test.
+     */
+    private boolean withinSeen(Eq e) {
+        RollingWindow w = e.peaks;
+        RollingWindow h = e.history;
+        int lowest = 0;
+        for (int j = 1; j < w.size(); j++) {
+            if (w.get(j) <= w.get(lowest)) {
+                lowest = j;
+            }
+        }
+        // the window is the newest part of the history
+        int before = h.size() - w.size() + lowest;
+        double seen = Double.NEGATIVE_INFINITY;
+        for (int j = 0; j < before; j++) {
+            seen = Math.max(seen, h.get(j));
+        }
+        return w.last() < seen + aboveSeen;
     }
 
     /** The period in steps of the detrended peaks (first autocorrelation peak above period_acf), or 1. */

@@ -1,6 +1,5 @@
 package dev.watcher.detect;
 
-import dev.watcher.detect.stats.RollingWindow;
 import dev.watcher.detect.stats.TheilSen;
 import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
@@ -9,7 +8,6 @@ import dev.watcher.model.Patterns;
 import dev.watcher.model.Samples;
 import dev.watcher.model.Severity;
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -43,6 +41,13 @@ import java.util.function.Consumer;
  * verdict); {@code clear_checks} (3); {@code forecast_window} (200); {@code forecast_every} (50: forecasts are computed on demand, at most once per that many samples); {@code
  * regime_jump_decades} (1.0). Monitor tolerances come from {@code monitor-settled.*} and {@code
  * monitor-periodic.*}; the relaxed monitor tolerance while open is {@code monitor-settled.resolve_factor} (2).
+ *
+ * <p>Cost per sample: O(equations) without hashing, allocation or logarithms (the per-equation state sits in
+ * array slots found once per names list; a drop-orders target is recomputed only when the maximum grows; the
+ * forecast window keeps raw values and logs are taken when a forecast is made). Every {@code every} samples
+ * the residual test, O(equations); the monitor judgements, O(monitor window log window) each, run at those
+ * samples only while the residuals hold their targets or the verdict is open. Forecasts, O({@value
+ * #FORECAST_POINTS}^2) per equation, on demand and at most once per {@code forecast_every} samples.
  */
 final class ConvergedDetector implements Detector {
 
@@ -54,31 +59,23 @@ final class ConvergedDetector implements Detector {
     }
 
     private final DetectSettings settings;
-    private final double target;
+    private final double defaultTarget;
     private final double dropOrders;
     private final int hold;
     private final int every;
-    private final double resolveDecades;
+    private final double resolveFactor;
     private final int clearChecks;
     private final int forecastWindow;
     private final int forecastEvery;
-    private final double regimeJump;
+    private final double jumpFactor;
     private final double monitorResolveFactor;
     private final MonitorJudge judge;
     private final MonitorSeries monitors;
     private final TimeSteps steps = new TimeSteps(Double.POSITIVE_INFINITY);
 
-    private final Map<String, Double> latest = new LinkedHashMap<>();
-    private final Map<String, Integer> atTarget = new HashMap<>();
-    private final Map<String, Double> runMax = new HashMap<>();
-    private final Map<String, double[]> targetSpecs = new HashMap<>();
-    private final Map<String, RollingWindow> logs = new LinkedHashMap<>();
-    private final Map<String, RollingWindow> iters = new HashMap<>();
-    // the windows of the last names list seen (records usually share one list per header)
-    private List<String> slotNames;
-    private RollingWindow[] slotLogs;
-    private RollingWindow[] slotIters;
-    private final Map<String, Forecast> forecasts = new LinkedHashMap<>();
+    /** Per equation state, found by array slot for a record's names list; {@code order}: first-seen order. */
+    private final PerName<Eq> eqs = new PerName<>(this::newEq);
+    private final List<Eq> order = new ArrayList<>();
     private final Map<String, Map<String, Object>> monitorStates = new LinkedHashMap<>();
     private List<String> waitingFor = List.of();
     private double longestPeriod;
@@ -90,18 +87,118 @@ final class ConvergedDetector implements Detector {
     private int failing;
     private int segmentSeen;
 
+    /**
+     * One equation: its latest value, its target (fixed, or from its running maximum when drop orders are
+     * set, recomputed only when the maximum grows), how many samples in a row it has been at target, and the
+     * raw values of the forecast window since the last regime change (logs are taken only when forecasting).
+     */
+    private final class Eq {
+        final String name;
+        final double drop;
+        final double absolute;
+        // the forecast window: a ring of raw values and their iterations, oldest at (head - size)
+        final double[] values = new double[forecastWindow];
+        final long[] iters = new long[forecastWindow];
+        int head;
+        int size;
+        /** A value above this starts a new regime (the latest value times 10^regime_jump_decades). */
+        double jumpAbove = Double.POSITIVE_INFINITY;
+        double latest = Double.NaN;
+        double runMax = Double.NaN;
+        double target;
+        /** The target times 10^resolve_decades: above this a residual counts against an open verdict. */
+        double clearLimit;
+        int atTarget;
+        Forecast forecast;
+
+        Eq(String name) {
+            this.name = name;
+            this.drop = settings.number(Patterns.CONVERGED + ".drop_orders." + name, dropOrders);
+            this.absolute = settings.number(Patterns.CONVERGED + ".residual_target." + name, defaultTarget);
+            setTarget(drop > 0 ? 0 : absolute);
+        }
+
+        void setTarget(double t) {
+            target = t;
+            clearLimit = t * resolveFactor;
+        }
+
+        void add(double v, long iter) {
+            latest = v;
+            if (!(v > 0 && v < Double.POSITIVE_INFINITY)) {
+                atTarget = 0;
+                clear();
+                return;
+            }
+            if (drop > 0 && !(v <= runMax)) {
+                runMax = v;
+                setTarget(v * Math.pow(10, -drop));
+            }
+            atTarget = v <= target ? atTarget + 1 : 0;
+            if (v > jumpAbove) {
+                clear(); // a new regime: the earlier slope says nothing about the way ahead
+            }
+            values[head] = v;
+            iters[head] = iter;
+            if (++head == values.length) {
+                head = 0;
+            }
+            if (size < values.length) {
+                size++;
+            }
+            jumpAbove = v * jumpFactor;
+        }
+
+        void clear() {
+            size = 0;
+            jumpAbove = Double.POSITIVE_INFINITY;
+        }
+
+        /** log10 of the window's values, oldest first, thinned to at most FORECAST_POINTS. */
+        double[] logs() {
+            double[] y = thin(window(values));
+            for (int i = 0; i < y.length; i++) {
+                y[i] = Math.log10(y[i]); // the window holds positive finite values only
+            }
+            return y;
+        }
+
+        /** The window's iterations, oldest first, thinned alike. */
+        double[] iterations() {
+            double[] x = new double[size];
+            for (int i = 0; i < size; i++) {
+                x[i] = iters[at(i)];
+            }
+            return thin(x);
+        }
+
+        private double[] window(double[] ring) {
+            double[] x = new double[size];
+            for (int i = 0; i < size; i++) {
+                x[i] = ring[at(i)];
+            }
+            return x;
+        }
+
+        /** Ring index of the i-th oldest value. */
+        private int at(int i) {
+            int k = head - size + i;
+            return k < 0 ? k + values.length : k;
+        }
+    }
+
     ConvergedDetector(DetectSettings s) {
         String p = Patterns.CONVERGED + ".";
         this.settings = s;
-        this.target = s.number(p + "residual_target", 1e-5);
+        this.defaultTarget = s.number(p + "residual_target", 1e-5);
         this.dropOrders = s.number(p + "drop_orders", 0);
         this.hold = Math.max(1, s.integer(p + "hold", 10));
         this.every = Math.max(1, s.integer(p + "every", 25));
-        this.resolveDecades = s.number(p + "resolve_decades", 0.5);
+        this.resolveFactor = Math.pow(10, s.number(p + "resolve_decades", 0.5));
         this.clearChecks = Math.max(1, s.integer(p + "clear_checks", 3));
         this.forecastWindow = Math.max(10, s.integer(p + "forecast_window", 200));
         this.forecastEvery = Math.max(1, s.integer(p + "forecast_every", 50));
-        this.regimeJump = s.number(p + "regime_jump_decades", 1.0);
+        this.jumpFactor = Math.pow(10, s.number(p + "regime_jump_decades", 1.0));
         this.monitorResolveFactor = Math.max(1, s.number(Patterns.MONITOR_SETTLED + ".resolve_factor", 2));
         // per-equation targets are read now, so that the start-up check of the parameters knows them
         for (String k : s.overrides().keySet()) {
@@ -115,35 +212,42 @@ final class ConvergedDetector implements Detector {
         this.monitors = new MonitorSeries(Math.max(64, window));
     }
 
+    private Eq newEq(String name) {
+        Eq e = new Eq(name);
+        order.add(e);
+        return e;
+    }
+
     @Override
     public void observe(IterationRecord record, Consumer<Detection> out) {
         if (record.segment() != segmentSeen) {
             segment(record.segment(), record.iter(), out);
         }
         monitors.accept(record);
-        Map<String, Double> sample;
-        long iter;
         if (record.hasStep() || record.hasInner()) {
+            // unsteady: a sample is a time step's last inner iteration
             TimeSteps.Step step = steps.accept(record);
-            if (step == null) {
+            if (step == null || step.floor().isEmpty()) {
                 return;
             }
-            sample = step.floor();
-            iter = step.lastIter();
+            long iter = step.lastIter();
+            lastIter = iter;
+            step.floor().forEach((name, v) -> {
+                Eq e = eqs.get(name);
+                (e == null ? eqs.all().computeIfAbsent(name, this::newEq) : e).add(v, iter);
+            });
         } else {
             Samples res = record.residuals();
             if (res.isEmpty()) {
                 return;
             }
-            addSample(res, record.iter()); // the same as addSample(toMap(res), iter), without the map
-            sample = null;
-            iter = record.iter();
-        }
-        if (sample != null) {
-            if (sample.isEmpty()) {
-                return;
+            long iter = record.iter();
+            lastIter = iter;
+            List<Eq> slots = eqs.slots(res.names());
+            double[] v = res.values();
+            for (int i = 0; i < v.length; i++) {
+                slots.get(i).add(v[i], iter);
             }
-            addSample(sample, iter);
         }
         samples++;
         if (open) {
@@ -153,85 +257,38 @@ final class ConvergedDetector implements Detector {
         }
     }
 
-    private static Map<String, Double> toMap(Samples s) {
-        Map<String, Double> m = new LinkedHashMap<>();
-        for (int i = 0; i < s.size(); i++) {
-            m.put(s.name(i), s.value(i));
-        }
-        return m;
-    }
-
-    private void addSample(Map<String, Double> sample, long iter) {
-        lastIter = iter;
-        sample.forEach((eq, v) -> addValue(eq, v, iter, logs.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow)),
-                iters.computeIfAbsent(eq, k -> new RollingWindow(forecastWindow))));
-    }
-
-    /** One record's residuals in the log's order; the windows found once per names list. */
-    private void addSample(Samples sample, long iter) {
-        lastIter = iter;
-        if (sample.names() != slotNames) {
-            slotNames = sample.names();
-            slotLogs = new RollingWindow[slotNames.size()];
-            slotIters = new RollingWindow[slotNames.size()];
-            for (int i = 0; i < slotLogs.length; i++) {
-                slotLogs[i] = logs.computeIfAbsent(slotNames.get(i), k -> new RollingWindow(forecastWindow));
-                slotIters[i] = iters.computeIfAbsent(slotNames.get(i), k -> new RollingWindow(forecastWindow));
-            }
-        }
-        for (int i = 0; i < slotLogs.length; i++) {
-            addValue(slotNames.get(i), sample.value(i), iter, slotLogs[i], slotIters[i]);
-        }
-    }
-
-    private void addValue(String eq, double v, long iter, RollingWindow w, RollingWindow it) {
-        latest.put(eq, v);
-        boolean finite = v > 0 && Double.isFinite(v);
-        if (finite) {
-            runMax.merge(eq, v, Math::max);
-        }
-        atTarget.put(eq, finite && v <= targetOf(eq) ? atTarget.getOrDefault(eq, 0) + 1 : 0);
-        if (!finite) {
-            w.clear();
-            it.clear();
-            return;
-        }
-        double y = Math.log10(v);
-        if (w.size() > 0 && y - w.last() > regimeJump) {
-            w.clear(); // a new regime: the earlier slope says nothing about the way ahead
-            it.clear();
-        }
-        w.add(y);
-        it.add(iter);
-    }
-
     /** The target of an equation: absolute, or orders of magnitude below its maximum when drop orders are set. */
     double targetOf(String eq) {
-        double[] spec = targetSpecs.computeIfAbsent(eq, k -> new double[] {
-            settings.number(Patterns.CONVERGED + ".drop_orders." + k, dropOrders),
-            settings.number(Patterns.CONVERGED + ".residual_target." + k, target)});
-        if (spec[0] > 0) {
-            Double max = runMax.get(eq);
-            return max == null ? 0 : max * Math.pow(10, -spec[0]);
+        Eq e = eqs.get(eq);
+        if (e != null) {
+            return e.target;
         }
-        return spec[1];
+        return settings.number(Patterns.CONVERGED + ".drop_orders." + eq, dropOrders) > 0 ? 0
+                : settings.number(Patterns.CONVERGED + ".residual_target." + eq, defaultTarget);
+    }
+
+    private List<String> names() {
+        List<String> names = new ArrayList<>(order.size());
+        for (Eq e : order) {
+            names.add(e.name);
+        }
+        return List.copyOf(names);
     }
 
     private boolean residualsHeld() {
         // with a periodic monitor, the residuals must stay at target over a whole period of it
         int need = Math.max(hold, (int) Math.ceil(longestPeriod));
-        for (String eq : latest.keySet()) {
-            if (atTarget.getOrDefault(eq, 0) < need) {
+        for (Eq e : order) {
+            if (e.atTarget < need) {
                 return false;
             }
         }
-        return !latest.isEmpty();
+        return !order.isEmpty();
     }
 
     private boolean residualsClearlyAbove() {
-        for (Map.Entry<String, Double> e : latest.entrySet()) {
-            double v = e.getValue();
-            if (!(v <= targetOf(e.getKey()) * Math.pow(10, resolveDecades))) {
+        for (Eq e : order) {
+            if (!(e.latest <= e.clearLimit)) {
                 return true;
             }
         }
@@ -297,9 +354,9 @@ final class ConvergedDetector implements Detector {
                 ? "residuals meet the configured criteria; the log has no monitors, so this is a residuals-only "
                         + "verdict: monitors are missing"
                 : String.format(Locale.ROOT, "meets the configured criteria: %d residuals at target and %d monitors "
-                        + "settled or periodic", latest.size(), monitors.names().size());
-        out.accept(new Detection(Patterns.CONVERGED, DetectionState.OPEN, Severity.INFO, lastIter, List.copyOf(
-                latest.keySet()), null, summary, "", evidence()));
+                        + "settled or periodic", order.size(), monitors.names().size());
+        out.accept(new Detection(Patterns.CONVERGED, DetectionState.OPEN, Severity.INFO, lastIter, names(), null,
+                summary, "", evidence()));
     }
 
     private void checkOpen(Consumer<Detection> out) {
@@ -314,7 +371,7 @@ final class ConvergedDetector implements Detector {
             open = false;
             failing = 0;
             out.accept(new Detection(Patterns.CONVERGED, DetectionState.RESOLVED, Severity.INFO, lastIter,
-                    List.copyOf(latest.keySet()), null, "no longer meets the configured criteria", "", evidence()));
+                    names(), null, "no longer meets the configured criteria", "", evidence()));
         }
     }
 
@@ -324,18 +381,18 @@ final class ConvergedDetector implements Detector {
         if (monitors.names().isEmpty()) {
             e.put("monitors", "missing");
         }
-        latest.forEach((eq, v) -> {
-            String k = EvidenceNames.key(eq);
-            e.put(k + "_residual", EvidenceNames.round(v));
-            e.put(k + "_target", EvidenceNames.round(targetOf(eq)));
-            Forecast f = forecasts.get(eq);
+        for (Eq q : order) {
+            String k = EvidenceNames.key(q.name);
+            e.put(k + "_residual", EvidenceNames.round(q.latest));
+            e.put(k + "_target", EvidenceNames.round(q.target));
+            Forecast f = q.forecast;
             if (f != null) {
                 e.put(k + "_forecast", f.status());
                 if (Double.isFinite(f.iterations())) {
                     e.put(k + "_iterations_to_target", Math.round(f.iterations()));
                 }
             }
-        });
+        }
         monitorStates.forEach((name, st) -> {
             String k = EvidenceNames.key(name);
             st.forEach((key, v) -> e.put(k + "_" + key, v instanceof Double d ? EvidenceNames.round(d) : v));
@@ -352,23 +409,22 @@ final class ConvergedDetector implements Detector {
             return;
         }
         forecastsAt = samples;
-        for (String eq : logs.keySet()) {
-            forecasts.put(eq, forecast(eq));
+        for (Eq e : order) {
+            e.forecast = forecast(e);
         }
     }
 
-    private Forecast forecast(String eq) {
-        Double v = latest.get(eq);
-        double t = targetOf(eq);
-        if (v != null && v > 0 && v <= t) {
+    private Forecast forecast(Eq e) {
+        double v = e.latest;
+        double t = e.target;
+        if (v > 0 && v <= t) {
             return new Forecast("reached", 0, 0, 0, Double.NaN);
         }
-        RollingWindow w = logs.get(eq);
-        if (w == null || w.size() < 10 || !(t > 0)) {
+        if (e.size < 10 || !(t > 0)) {
             return new Forecast("unknown", Double.NaN, Double.NaN, Double.NaN, Double.NaN);
         }
-        double[] y = thin(w.toArray());
-        double[] x = thin(iters.get(eq).toArray());
+        double[] y = e.logs();
+        double[] x = e.iterations();
         TheilSen ts = TheilSen.fit(x, y, y.length, 0.95);
         if (!(ts.high() < 0)) {
             return new Forecast("not converging", Double.NaN, Double.NaN, Double.NaN, ts.slope());
@@ -400,9 +456,10 @@ final class ConvergedDetector implements Detector {
         segmentSeen = segment;
         steps.reset();
         monitors.reset();
-        logs.values().forEach(RollingWindow::clear);
-        iters.values().forEach(RollingWindow::clear);
-        atTarget.clear();
+        for (Eq e : order) {
+            e.clear();
+            e.atTarget = 0;
+        }
     }
 
     /**
@@ -419,12 +476,12 @@ final class ConvergedDetector implements Detector {
                 : (!waitingFor.isEmpty() ? "held back" : "not yet");
         m.put("verdict", verdict);
         m.put("waiting_for", waitingFor);
-        Map<String, Object> eqs = new LinkedHashMap<>();
-        latest.forEach((eq, v) -> {
+        Map<String, Object> equations = new LinkedHashMap<>();
+        for (Eq e : order) {
             Map<String, Object> f = new LinkedHashMap<>();
-            f.put("residual", v);
-            f.put("target", targetOf(eq));
-            Forecast fc = forecasts.get(eq);
+            f.put("residual", e.latest);
+            f.put("target", e.target);
+            Forecast fc = e.forecast;
             if (fc != null) {
                 f.put("forecast", fc.status());
                 f.put("iterations", fc.iterations());
@@ -432,9 +489,9 @@ final class ConvergedDetector implements Detector {
                 f.put("iterations_high", fc.high());
                 f.put("slope_decades_per_iteration", fc.slopeDecadesPerIter());
             }
-            eqs.put(eq, f);
-        });
-        m.put("equations", eqs);
+            equations.put(e.name, f);
+        }
+        m.put("equations", equations);
         Map<String, Object> mons = new LinkedHashMap<>();
         monitorStates.forEach((k, v) -> mons.put(k, Map.copyOf(v)));
         m.put("monitors", mons);
@@ -444,6 +501,7 @@ final class ConvergedDetector implements Detector {
     /** The latest forecast of an equation, or null. */
     Forecast forecastOf(String eq) {
         updateForecasts();
-        return forecasts.get(eq);
+        Eq e = eqs.get(eq);
+        return e == null ? null : e.forecast;
     }
 }

@@ -237,4 +237,77 @@ final class SmallSolvers {
         }
         return out;
     }
+
+    /**
+     * Randomized Kaczmarz on an overdetermined least-squares problem A x ~ b: {@code rows} x {@code cols}
+     * standard normal entries, b = A x_true + {@code noise} e (e standard normal), x_0 = 0; each iteration
+     * projects x onto the hyperplane of one row drawn with probability |a_i|^2 / |A|_F^2 (Strohmer &amp;
+     * Vershynin 2009, J. Fourier Anal. Appl. 15:262 [memory]). On consistent data it converges linearly; on
+     * inconsistent data (noise &gt; 0) it converges only to within a radius of the least-squares solution set
+     * by the noise and then wanders inside it (Needell 2010, BIT Numer. Math. 50:395 [memory]): the residual
+     * falls, then bounces randomly around a plateau, a noisy stall from real numerics. From iteration
+     * {@code consistentFrom} (when &gt; 0) the data are made consistent (b = A x_true): the stall clears and
+     * the residual falls again. Residual {@code fit}: |b - A x| normalised by |b| at the start.
+     */
+    static List<IterationRecord> randomizedKaczmarz(int rows, int cols, double noise, int iterations,
+            int consistentFrom, long seed) {
+        Random rng = new Random(seed);
+        double[][] a = new double[rows][cols];
+        double[] xTrue = new double[cols];
+        double[] exact = new double[rows];
+        double[] b = new double[rows];
+        double[] norm2 = new double[rows];
+        for (int j = 0; j < cols; j++) {
+            xTrue[j] = rng.nextGaussian();
+        }
+        double frobenius = 0;
+        for (int i = 0; i < rows; i++) {
+            for (int j = 0; j < cols; j++) {
+                a[i][j] = rng.nextGaussian();
+                exact[i] += a[i][j] * xTrue[j];
+                norm2[i] += a[i][j] * a[i][j];
+            }
+            b[i] = exact[i] + noise * rng.nextGaussian();
+            frobenius += norm2[i];
+        }
+        double[] cumulative = new double[rows];
+        double c = 0;
+        for (int i = 0; i < rows; i++) {
+            c += norm2[i];
+            cumulative[i] = c / frobenius;
+        }
+        double b0 = 0;
+        for (double v : b) {
+            b0 += v * v;
+        }
+        b0 = Math.sqrt(b0);
+        double[] x = new double[cols];
+        List<String> eqs = List.of("fit");
+        List<IterationRecord> out = new ArrayList<>();
+        for (int it = 1; it <= iterations; it++) {
+            if (it == consistentFrom) {
+                b = exact;
+            }
+            int i = java.util.Arrays.binarySearch(cumulative, rng.nextDouble());
+            i = Math.min(i < 0 ? -i - 1 : i, rows - 1);
+            double d = b[i];
+            for (int j = 0; j < cols; j++) {
+                d -= a[i][j] * x[j];
+            }
+            d /= norm2[i];
+            for (int j = 0; j < cols; j++) {
+                x[j] += d * a[i][j];
+            }
+            double r2 = 0;
+            for (int q = 0; q < rows; q++) {
+                double e = b[q];
+                for (int j = 0; j < cols; j++) {
+                    e -= a[q][j] * x[j];
+                }
+                r2 += e * e;
+            }
+            out.add(IterationRecord.steady(it, new Samples(eqs, new double[] {Math.sqrt(r2) / b0}), Samples.EMPTY));
+        }
+        return out;
+    }
 }

@@ -1,7 +1,6 @@
 package dev.watcher.detect;
 
 import dev.watcher.detect.stats.MannKendall;
-import dev.watcher.detect.stats.RollingWindow;
 import dev.watcher.detect.stats.TheilSen;
 import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
@@ -50,7 +49,8 @@ import java.util.function.Consumer;
  *     stall may drift, so a residual that only creeps down (a stall in every practical sense) stays one open
  *     condition instead of resolving and reopening at each half decade.</li>
  * </ul>
- * Once resolved, an equation needs {@code confirm} fresh evaluations to stall again.
+ * Once resolved, an equation needs a fresh window and {@code confirm} evaluations to stall again (its raw
+ * values are not kept while it is stalled).
  *
  * <p>Parameters ({@code stalled-oscillation.}): {@code window} 400 records, {@code block} 10,
  * {@code eval_every} 200, {@code target} 1e-5, {@code trend_alpha} 0.05, {@code max_drift_decades} 0.3,
@@ -59,13 +59,14 @@ import java.util.function.Consumer;
  * a 400-record window's mean level under the noise of the DetectBench model, AR(1) of lag-one correlation
  * 0.92 and 0.15 decades of scatter plus a sine of 0.08 decades: our choice, no published source).
  *
- * <p>Cost per record and equation O(1) and free of allocation and of logarithms: a value goes into a ring
- * of raw values and into the block's running product, kept as an integer sum of binary exponents and a
- * product of mantissas (one logarithm per block). Per evaluation (every {@code eval_every} values, and only
- * for an equation above the target, not stalled and not clearly falling) O(window log window + (window /
- * block)^2); the window's median and spread are taken from the order statistics of the raw values (log10 is
- * monotone, so the log of an order statistic is the order statistic of the logs). Per block O(open
- * equations) for the resolution check.
+ * <p>Cost per record and equation O(1), free of allocation and of logarithms: a value goes into the
+ * block's running product, kept as an integer sum of binary exponents and a product of mantissas (one
+ * logarithm per block), and, unless the equation is stalled, into a ring of raw values. Per block, O(1) for
+ * the block rings and O(open equations) for the resolution check. Evaluations come at the first block end at
+ * or after every {@code eval_every} values (exactly every 200 values with the defaults); past a cheap
+ * O(window / block) gate (not stalled, not clearly falling, above the target) one costs O(window log window
+ * + (window / block)^2). The window's median and spread come from the order statistics of the raw values
+ * (log10 is monotone: the log of an order statistic is the order statistic of the logs).
  */
 final class StalledOscillationDetector implements Detector {
 
@@ -111,12 +112,20 @@ final class StalledOscillationDetector implements Detector {
 
     private final class Eq {
         final String name;
-        /** The raw (positive, finite) values of the window; logs are taken of order statistics only. */
-        final RollingWindow values = new RollingWindow(window);
-        final RollingWindow means = new RollingWindow(window / block);
-        final RollingWindow mids = new RollingWindow(window / block);
-        /** The smoothed level after each of the last window / block blocks: the level one window ago. */
-        final RollingWindow levels = new RollingWindow(window / block);
+        /**
+         * The raw (positive, finite) values of the window, in ring order: only their order statistics are
+         * used (logs are taken of those alone), so the ring needs no oldest-first view.
+         */
+        final double[] values = new double[window];
+        int head;
+        boolean full;
+        // the last window / block blocks, one ring index for the three: block means of log10 r, block
+        // midpoints (iterations), and the smoothed level after each block (its oldest: the level one window ago)
+        final double[] means = new double[window / block];
+        final double[] mids = new double[window / block];
+        final double[] levels = new double[window / block];
+        int blockHead;
+        int blocks;
         long count;
         long nextEval = evalEvery;
         // the block in progress: log2 of the product of its values = exponents + log2(mantissas)
@@ -126,9 +135,8 @@ final class StalledOscillationDetector implements Detector {
         long blockStart;
         /** Exponentially smoothed block means (weight 0.1): the level a renewed fall is judged on. */
         double level10 = Double.NaN;
-        /** Sum of the window's block means (recomputed exactly once per window of blocks). */
+        /** Sum of the window's block means (recomputed exactly each time the ring wraps). */
         double meanSum;
-        int blocks;
         int streak;
         boolean stalled;
         // evidence of the latest evaluation
@@ -143,12 +151,11 @@ final class StalledOscillationDetector implements Detector {
         }
 
         void reset() {
-            values.clear();
-            means.clear();
-            mids.clear();
-            levels.clear();
-            meanSum = 0;
+            head = 0;
+            full = false;
+            blockHead = 0;
             blocks = 0;
+            meanSum = 0;
             count = 0;
             nextEval = evalEvery;
             exponents = 0;
@@ -160,8 +167,13 @@ final class StalledOscillationDetector implements Detector {
 
         /** Adds a positive finite value; true when it completed a block. */
         boolean add(double v, long iter) {
-            count++;
-            values.add(v);
+            if (!stalled) { // the raw values serve the stall test only
+                values[head] = v;
+                if (++head == values.length) {
+                    head = 0;
+                    full = true;
+                }
+            }
             if (inBlock == 0) {
                 blockStart = iter;
             }
@@ -180,27 +192,33 @@ final class StalledOscillationDetector implements Detector {
             if (++inBlock < block) {
                 return false;
             }
+            endBlock(iter);
+            return true;
+        }
+
+        /** Closes the block in progress (kept apart so that the per-value path stays small enough to inline). */
+        private void endBlock(long iter) {
+            count += block;
             double mean = (exponents * LOG10_2 + Math.log10(mantissas)) / block;
-            if (means.full()) {
-                meanSum -= means.get(0);
-            }
-            means.add(mean);
-            if (++blocks == means.capacity()) { // keep the running sum from drifting
-                blocks = 0;
-                meanSum = 0;
-                for (int i = 0; i < means.size(); i++) {
-                    meanSum += means.get(i);
-                }
-            } else {
-                meanSum += mean;
-            }
             level10 = Double.isNaN(level10) ? mean : level10 + 0.1 * (mean - level10);
-            levels.add(level10);
-            mids.add(0.5 * (blockStart + iter));
+            int k = blockHead;
+            meanSum += mean - (blocks == means.length ? means[k] : 0);
+            means[k] = mean;
+            mids[k] = 0.5 * (blockStart + iter);
+            levels[k] = level10;
+            if (blocks < means.length) {
+                blocks++;
+            }
+            if (++blockHead == means.length) {
+                blockHead = 0;
+                meanSum = 0; // once per wrap, the exact sum: the running one cannot drift
+                for (double x : means) {
+                    meanSum += x;
+                }
+            }
             exponents = 0;
             mantissas = 1;
             inBlock = 0;
-            return true;
         }
 
         /** True when this equation no longer counts as stalled at {@code stalledAt} (see the class comment). */
@@ -209,12 +227,26 @@ final class StalledOscillationDetector implements Detector {
             if (Double.isNaN(now)) {
                 return false;
             }
-            return belowTarget() || now <= stalledAt - resolveDrop && now <= levels.get(0) - resolveDrop;
+            return belowTarget() || now <= stalledAt - resolveDrop && now <= levels[oldest()] - resolveDrop;
+        }
+
+        /** Ring index of the oldest block. */
+        int oldest() {
+            return blocks < means.length ? 0 : blockHead;
+        }
+
+        /** Copies a block ring oldest first into {@code dst}; returns the count. */
+        int copy(double[] ring, double[] dst) {
+            int from = oldest();
+            int first = Math.min(blocks, ring.length - from);
+            System.arraycopy(ring, from, dst, 0, first);
+            System.arraycopy(ring, 0, dst, first, blocks - first);
+            return blocks;
         }
 
         /** The window's mean level (mean of its block means) clearly below the target. */
         boolean belowTarget() {
-            return means.size() > 0 && meanSum / means.size() <= target - resolveMargin;
+            return blocks > 0 && meanSum / blocks <= target - resolveMargin;
         }
     }
 
@@ -245,10 +277,15 @@ final class StalledOscillationDetector implements Detector {
                 continue; // no log of zero, negative, NaN or infinite values
             }
             Eq e = slots.get(i);
-            blockDone |= e.add(x, iter);
-            if (e.count == e.nextEval) {
-                e.nextEval += evalEvery;
-                if (e.values.full() && !e.stalled) {
+            if (!e.add(x, iter)) {
+                continue;
+            }
+            blockDone = true;
+            if (e.count >= e.nextEval) {
+                while (e.nextEval <= e.count) {
+                    e.nextEval += evalEvery;
+                }
+                if (e.full && !e.stalled) {
                     if (evaluate(e)) {
                         if (++e.streak >= confirm) {
                             if (newly == null) {
@@ -272,7 +309,7 @@ final class StalledOscillationDetector implements Detector {
 
     /** The stall test of one equation's full window; records its evidence. */
     private boolean evaluate(Eq e) {
-        int m = e.means.copyTo(by);
+        int m = e.copy(e.means, by);
         // cheap gate: second half of the block means clearly below the first half means still converging
         double first = 0;
         double second = 0;
@@ -288,7 +325,7 @@ final class StalledOscillationDetector implements Detector {
             return false;
         }
         e.level = e.level10;
-        e.mids.copyTo(bx);
+        e.copy(e.mids, bx);
         TheilSen ts = TheilSen.fit(bx, by, m, 0.95);
         e.slope = ts.slope();
         double span = bx[m - 1] - bx[0] + block;
@@ -303,7 +340,8 @@ final class StalledOscillationDetector implements Detector {
             return false;
         }
         // median and p95 - p5 of log10 r (type-7 quantiles, as RobustScale) from the sorted raw values
-        int n = e.values.copyTo(raw);
+        int n = window;
+        System.arraycopy(e.values, 0, raw, 0, n);
         Arrays.sort(raw, 0, n);
         e.level = (n & 1) == 1 ? Math.log10(raw[n / 2])
                 : 0.5 * (Math.log10(raw[n / 2 - 1]) + Math.log10(raw[n / 2]));
@@ -380,8 +418,10 @@ final class StalledOscillationDetector implements Detector {
                 for (Eq e : g.members) {
                     e.stalled = false;
                     e.streak = 0;
+                    e.head = 0; // a fresh window of raw values for the next stall test
+                    e.full = false;
                     names.add(e.name);
-                    level = Math.max(level, atTarget ? e.meanSum / e.means.size() : e.level10);
+                    level = Math.max(level, atTarget ? e.meanSum / e.blocks : e.level10);
                 }
                 Map<String, Object> ev = new LinkedHashMap<>();
                 ev.put("level", Log10.round(Math.pow(10, level)));

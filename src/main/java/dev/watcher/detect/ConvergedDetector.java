@@ -80,6 +80,8 @@ final class ConvergedDetector implements Detector {
     private List<String> waitingFor = List.of();
     private double longestPeriod;
     private long samples;
+    /** Samples left until the next every-th one (samples % every == 0). */
+    private int untilCheck;
     private long forecastsAt = -1;
     private long lastIter;
     private boolean open;
@@ -194,6 +196,7 @@ final class ConvergedDetector implements Detector {
         this.dropOrders = s.number(p + "drop_orders", 0);
         this.hold = Math.max(1, s.integer(p + "hold", 10));
         this.every = Math.max(1, s.integer(p + "every", 25));
+        this.untilCheck = every;
         this.resolveFactor = Math.pow(10, s.number(p + "resolve_decades", 0.5));
         this.clearChecks = Math.max(1, s.integer(p + "clear_checks", 3));
         this.forecastWindow = Math.max(10, s.integer(p + "forecast_window", 200));
@@ -250,9 +253,14 @@ final class ConvergedDetector implements Detector {
             }
         }
         samples++;
+        // every-th sample, counted down rather than by a division per record
+        boolean check = --untilCheck == 0;
+        if (check) {
+            untilCheck = every;
+        }
         if (open) {
-            checkOpen(out);
-        } else if (samples % every == 0) {
+            checkOpen(check, out);
+        } else if (check) {
             checkClosed(out);
         }
     }
@@ -359,11 +367,11 @@ final class ConvergedDetector implements Detector {
                 summary, "", evidence()));
     }
 
-    private void checkOpen(Consumer<Detection> out) {
+    private void checkOpen(boolean check, Consumer<Detection> out) {
         boolean bad = residualsClearlyAbove();
-        if (!bad && samples % every == 0 && !openResidualsOnly) {
+        if (!bad && check && !openResidualsOnly) {
             bad = !judgeMonitors(monitorResolveFactor).isEmpty();
-        } else if (!bad && samples % every != 0) {
+        } else if (!bad && !check) {
             return;
         }
         failing = bad ? failing + 1 : 0;

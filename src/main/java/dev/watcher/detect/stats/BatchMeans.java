@@ -31,6 +31,40 @@ public record BatchMeans(int batches, int batchSize, double mean, double halfWid
     }
 
     /**
+     * The lag-one sample autocorrelation of the batch means, r1 = sum_{j&lt;B-1} (m_j - mean)(m_{j+1} - mean) /
+     * sum_j (m_j - mean)^2 (the usual sample autocorrelation, e.g. Box &amp; Jenkins [memory]); 0 when the means
+     * are all equal.
+     */
+    public double lagOneCorrelation() {
+        double den = 0;
+        double num = 0;
+        for (int j = 0; j < means.length; j++) {
+            double d = means[j] - mean;
+            den += d * d;
+            if (j + 1 < means.length) {
+                num += d * (means[j + 1] - mean);
+            }
+        }
+        return den > 0 ? num / den : 0;
+    }
+
+    /**
+     * The half-width widened for correlated batch means: {@link #halfWidth()} times sqrt((1 + r) / (1 - r)),
+     * r = max(0, {@link #lagOneCorrelation()}). The variance of the mean of n values of a series with lag-one
+     * correlation r is about (sigma^2 / n) (1 + r) / (1 - r) (the effective sample size n (1 - r) / (1 + r) of
+     * a first-order autoregressive series: Bayley &amp; Hammersley 1946; Wilks, <i>Statistical Methods in the
+     * Atmospheric Sciences</i>, section on serial correlation [memory]). Independent batch means (batches longer
+     * than the series' memory, as the method assumes) leave the half-width as it is; batches shorter than,
+     * say, a slow oscillation's period do not, and their interval would otherwise claim a precision the
+     * window does not have. A negative r is not used to narrow the interval. The sample r1 of B values stays
+     * below cos(pi / (B + 1)), so the factor is finite.
+     */
+    public double effectiveHalfWidth() {
+        double r = Math.max(0, lagOneCorrelation());
+        return halfWidth * Math.sqrt((1 + r) / (1 - r));
+    }
+
+    /**
      * Batch means of {@code x[from..from+n)} with {@code batches} batches (the earliest leftover values that
      * do not fill a batch are left out). Returns null when there are fewer than two values per batch or
      * fewer than two batches.
@@ -61,7 +95,10 @@ public record BatchMeans(int batches, int batchSize, double mean, double halfWid
         return new BatchMeans(batches, size, grand, t * sd / Math.sqrt(batches), confidence, m);
     }
 
-    private static final java.util.concurrent.ConcurrentHashMap<String, Double> T_QUANTILES =
+    private record QuantileKey(int degreesOfFreedom, double p) {
+    }
+
+    private static final java.util.concurrent.ConcurrentHashMap<QuantileKey, Double> T_QUANTILES =
             new java.util.concurrent.ConcurrentHashMap<>();
 
     /**
@@ -69,7 +106,8 @@ public record BatchMeans(int batches, int batchSize, double mean, double halfWid
      * detectors ask for a handful of them over and over, and the inversion is iterative.
      */
     public static double tQuantile(int degreesOfFreedom, double p) {
-        return T_QUANTILES.computeIfAbsent(degreesOfFreedom + ":" + p,
+        // keyed by a record, not a string: turning p into text cost more than the batch means themselves
+        return T_QUANTILES.computeIfAbsent(new QuantileKey(degreesOfFreedom, p),
                 k -> new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p));
     }
 }

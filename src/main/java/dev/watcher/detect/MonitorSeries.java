@@ -141,23 +141,19 @@ final class MonitorSeries {
         if (r.hasStep() || r.hasInner()) {
             unsteady = true;
             TimeSteps.Step s = steps.accept(r);
-            if (s == null) {
-                return false;
-            }
-            boolean added = false;
-            for (Map.Entry<String, Double> e : s.monitors().entrySet()) {
-                added |= add(tracks.of(e.getKey()), e.getValue(), s.lastIter(), s.time());
-            }
-            return added;
+            return s != null && addAll(s.monitorValues(), s.lastIter(), s.time());
         }
-        Samples m = r.monitors();
+        return addAll(r.monitors(), r.iter(), r.time());
+    }
+
+    private boolean addAll(Samples m, long iter, double time) {
         if (m.isEmpty()) {
             return false;
         }
         List<Track> slots = tracks.slots(m.names());
         boolean added = false;
         for (int i = 0; i < slots.size(); i++) {
-            added |= add(slots.get(i), m.value(i), r.iter(), r.time());
+            added |= add(slots.get(i), m.value(i), iter, time);
         }
         return added;
     }

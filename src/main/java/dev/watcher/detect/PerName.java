@@ -38,11 +38,6 @@ final class PerName<S> {
         return byName.get(name);
     }
 
-    /** The state for one name, created on first sight (for names that come one at a time, not as a list). */
-    S of(String name) {
-        return byName.computeIfAbsent(name, factory);
-    }
-
     /** Forgets every state (a new segment). */
     void clear() {
         byName.clear();

@@ -73,6 +73,7 @@ final class FamilyDivergenceDetector implements Detector {
     FamilyDivergenceDetector(DetectSettings s, ResidualLogs logs) {
         this.logs = logs;
         rp = RiseTracker.Params.read(s, P, 0.002, 400);
+        logs.rises.reserve(rp);
         floor = Math.log10(s.number(P + "floor", 1e-12));
         minFamilySize = Math.max(1, s.integer(P + "min_family_size", 2));
         declared = s.families();

@@ -54,12 +54,12 @@ final class RiseTracker {
     private double episodePeak;
     /** The highest rise this equation has come back from in this segment (an episode that ended). */
     private double recoveredFrom;
-    // sliding-window minimum of the smoothed level (monotonic deque of values and record counts)
+    /** The baseline minimum is taken over this many of the core's latest smoothed levels. */
     private final int baselineWindow;
-    private final double[] dqVal;
-    private final long[] dqAt;
-    private int dqHead;
-    private int dqSize;
+    /** The baseline minimum and where it lies, as of core count {@code minFor} (computed on demand). */
+    private long minFor = -1;
+    private double minValue;
+    private long minCount;
     /** The core's count when this tracker last saw a value (a core shared with another detector). */
     private long seen;
     long lastEval = Long.MIN_VALUE / 2;
@@ -73,8 +73,9 @@ final class RiseTracker {
         this.recoveredMargin = p.recoveredMargin();
         this.maxRequired = p.maxRequired();
         this.baselineWindow = Math.max(core.logs.capacity(), p.baselineWindow());
-        dqVal = new double[this.baselineWindow + 1];
-        dqAt = new long[this.baselineWindow + 1];
+        if (baselineWindow > core.levelCapacity()) {
+            throw new IllegalArgumentException("core keeps " + core.levelCapacity() + " levels, not " + baselineWindow);
+        }
     }
 
     /**
@@ -89,23 +90,9 @@ final class RiseTracker {
         }
         seen = count;
         if (count > core.warmup) {
-            // monotonic deque: drop the newer entries not below the new level, append it, expire the oldest
-            double smooth = core.smooth;
-            int cap = dqVal.length;
-            while (dqSize > 0 && dqVal[wrap(dqHead + dqSize - 1, cap)] >= smooth) {
-                dqSize--;
-            }
-            int at = wrap(dqHead + dqSize, cap);
-            dqVal[at] = smooth;
-            dqAt[at] = count;
-            dqSize++;
-            while (dqAt[dqHead] <= count - baselineWindow) {
-                dqHead = wrap(dqHead + 1, cap);
-                dqSize--;
-            }
             // the rises this equation came back from on its own set the bar for the next one
             if (core.cusum.signalled()) {
-                episodePeak = Math.max(episodePeak, smooth - dqVal[dqHead]);
+                episodePeak = Math.max(episodePeak, core.smooth - minSmooth());
             } else if (episodePeak > 0) {
                 recoveredFrom = Math.max(recoveredFrom, episodePeak);
                 episodePeak = 0;
@@ -116,11 +103,6 @@ final class RiseTracker {
     /** Adds a value with a core of its own (tests, single detectors): every call is a new record. */
     void add(long iter, double y) {
         add(core.stamp + 1, iter, y);
-    }
-
-    /** i mod cap for 0 <= i < 2 cap, without a division. */
-    private static int wrap(int i, int cap) {
-        return i >= cap ? i - cap : i;
     }
 
     long count() {
@@ -143,16 +125,28 @@ final class RiseTracker {
     }
 
     boolean warm() {
-        return core.count > core.warmup && dqSize > 0;
+        return core.count > core.warmup;
     }
 
     /** The baseline: the lowest smoothed level over the last baselineWindow records (+infinity before). */
     double minSmooth() {
-        return dqSize == 0 ? Double.POSITIVE_INFINITY : dqVal[dqHead];
+        baseline();
+        return minValue;
     }
 
+    /** The record count of the baseline minimum (the latest one when several are equal). */
     private long minAt() {
-        return dqSize == 0 ? core.count : dqAt[dqHead];
+        baseline();
+        return minCount;
+    }
+
+    /** Computes the baseline once per record, on demand: most records never need it. */
+    private void baseline() {
+        if (minFor != core.count) {
+            minFor = core.count;
+            minValue = core.minLevel(baselineWindow);
+            minCount = core.count > core.warmup ? core.minLevelAt + core.warmup : core.count;
+        }
     }
 
     double rise() {
@@ -231,10 +225,9 @@ final class RiseTracker {
     void reset() {
         core.reset();
         seen = 0;
+        minFor = -1;
         episodePeak = 0;
         recoveredFrom = 0;
-        dqHead = 0;
-        dqSize = 0;
         lastEval = Long.MIN_VALUE / 2;
     }
 
@@ -259,14 +252,76 @@ final class RiseTracker {
         private double scale;
         private double lastD;
         double minRaw = Double.POSITIVE_INFINITY;
+        // The smoothed levels after the warm-up, numbered k = 1, 2, ... (k = count - warmup): level k at
+        // levels[k & mask], and the minimum of each aligned block of 16 (k >> 4) at blockMins[(k >> 4) & bmask].
+        // A baseline minimum over the last w levels reads w / 16 block minima and at most 31 levels, and only
+        // when asked; a record costs two stores and a comparison.
+        private final double[] levels;
+        private final double[] blockMins;
+        private long k;
+        /** The number k of the level that {@link #minLevel} found last. */
+        long minLevelAt;
 
-        Core(String name, int window, int warmup, double cusumK, double cusumH, double minScale) {
+        Core(String name, int window, int warmup, double cusumK, double cusumH, double minScale, int levelWindow) {
             this.name = name;
             this.warmup = warmup;
             this.minScale = minScale;
             iters = new RollingWindow(window);
             logs = new RollingWindow(window);
             cusum = new Cusum(cusumK, cusumH, 0);
+            levels = new double[Integer.highestOneBit(Math.max(16, levelWindow) * 2 - 1)];
+            blockMins = new double[Integer.highestOneBit((levels.length / 16 + 2) * 2 - 1)];
+        }
+
+        /** How many of the latest levels a baseline may span. */
+        int levelCapacity() {
+            return levels.length;
+        }
+
+        /**
+         * The lowest smoothed level among the last {@code w} after the warm-up (+infinity when there is none);
+         * sets {@link #minLevelAt} to its number, the latest of equal ones (as a monotonic deque would).
+         */
+        double minLevel(int w) {
+            long hi = k;
+            long lo = Math.max(1, k - w + 1);
+            double best = Double.POSITIVE_INFINITY;
+            long at = -1;
+            if (hi < lo) {
+                minLevelAt = -1;
+                return best;
+            }
+            int mask = levels.length - 1;
+            long firstFull = (lo & 15) == 0 ? lo >> 4 : (lo >> 4) + 1;
+            // the levels before the first whole block, one by one
+            long upTo = Math.min(hi, (firstFull << 4) - 1);
+            for (long i = lo; i <= upTo; i++) {
+                double v = levels[(int) (i & mask)];
+                if (v <= best) {
+                    best = v;
+                    at = i;
+                }
+            }
+            // then block by block (the newest block holds exactly the levels written so far)
+            long bestBlock = -1;
+            int bmask = blockMins.length - 1;
+            for (long b = firstFull; b <= hi >> 4; b++) {
+                double v = blockMins[(int) (b & bmask)];
+                if (v <= best) {
+                    best = v;
+                    bestBlock = b;
+                }
+            }
+            if (bestBlock >= 0) {
+                long end = Math.min(hi, (bestBlock << 4) + 15);
+                for (long i = bestBlock << 4; i <= end; i++) {
+                    if (levels[(int) (i & mask)] <= best) {
+                        at = i;
+                    }
+                }
+            }
+            minLevelAt = at;
+            return best;
         }
 
         void add(long at, long iter, double y) {
@@ -305,6 +360,10 @@ final class RiseTracker {
             logs.add(y);
             if (count > warmup) {
                 minRaw = Math.min(minRaw, y);
+                k++;
+                levels[(int) (k & (levels.length - 1))] = smooth;
+                int b = (int) ((k >> 4) & (blockMins.length - 1));
+                blockMins[b] = (k & 15) == 0 || k == 1 ? smooth : Math.min(blockMins[b], smooth);
             }
         }
 
@@ -314,6 +373,7 @@ final class RiseTracker {
             logs.clear();
             cusum.reset();
             count = 0;
+            k = 0;
             scale = 0;
             lastD = 0;
             wander = 0;
@@ -326,13 +386,33 @@ final class RiseTracker {
      * k and h, noise floor); different parameters get different cores. One run's thread.
      */
     static final class Cores {
+        private final java.util.Map<java.util.List<Object>, Integer> reserved = new java.util.HashMap<>();
         private final java.util.Map<java.util.List<Object>, java.util.Map<String, Core>> byParams =
                 new java.util.HashMap<>();
 
+        private static java.util.List<Object> key(Params p) {
+            return java.util.List.of(p.window(), p.warmup(), p.cusumK(), p.cusumH(), p.minScale());
+        }
+
+        /**
+         * Called by each detector when it is built, before any record: the cores made for these parameters
+         * keep enough levels for the longest baseline window of all the detectors that share them.
+         */
+        void reserve(Params p) {
+            reserved.merge(key(p), p.baselineWindow(), Math::max);
+        }
+
+        /** The shared core of one equation; a private one when {@code p} asks more than was reserved. */
         Core of(String name, Params p) {
-            return byParams.computeIfAbsent(java.util.List.of(p.window(), p.warmup(), p.cusumK(), p.cusumH(),
-                    p.minScale()), k -> new java.util.HashMap<>()).computeIfAbsent(name,
-                            n -> new Core(n, p.window(), p.warmup(), p.cusumK(), p.cusumH(), p.minScale()));
+            java.util.List<Object> key = key(p);
+            int levels = Math.max(p.baselineWindow(), reserved.getOrDefault(key, 0));
+            Core c = byParams.computeIfAbsent(key, x -> new java.util.HashMap<>()).computeIfAbsent(name,
+                    n -> new Core(n, p.window(), p.warmup(), p.cusumK(), p.cusumH(), p.minScale(), levels));
+            if (c.levelCapacity() < p.baselineWindow()) {
+                return new Core(name, p.window(), p.warmup(), p.cusumK(), p.cusumH(), p.minScale(),
+                        p.baselineWindow());
+            }
+            return c;
         }
     }
 

@@ -65,6 +65,7 @@ final class SingleEquationBlowupDetector implements Detector {
     SingleEquationBlowupDetector(DetectSettings s, ResidualLogs logs) {
         this.logs = logs;
         rp = RiseTracker.Params.read(s, P, 0.003, 300);
+        logs.rises.reserve(rp);
         othersRisingFraction = s.number(P + "others_rising_fraction", 0.25);
         eqs = new PerName<>(n -> new Eq(logs.rises.of(n, rp)));
         xs = new double[rp.window()];

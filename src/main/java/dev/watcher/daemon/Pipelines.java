@@ -67,6 +67,6 @@ public final class Pipelines {
         }
         Decider decider = new Decider(runRules, spec.name(), clock);
         return new RunPipeline(spec.name(), parsers, Detectors.standard(settings(spec, runRules, cliOverrides)),
-                decider, out, new RunCounters(), clock, joinBound);
+                decider, out, new RunCounters(), clock, joinBound, Detectors.SECOND_LANE_FROM);
     }
 }

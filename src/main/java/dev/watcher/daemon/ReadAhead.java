@@ -1,5 +1,6 @@
 package dev.watcher.daemon;
 
+import dev.watcher.model.Detection;
 import dev.watcher.model.IterationRecord;
 import dev.watcher.model.LineParser;
 import dev.watcher.model.Malformed;
@@ -10,6 +11,7 @@ import java.io.IOException;
 import java.io.InterruptedIOException;
 import java.io.UncheckedIOException;
 import java.util.Arrays;
+import java.util.List;
 import java.util.concurrent.ArrayBlockingQueue;
 import java.util.concurrent.BlockingQueue;
 import java.util.concurrent.ExecutorService;
@@ -81,7 +83,18 @@ final class ReadAhead implements AutoCloseable {
      */
     void run(int source, Source src) throws IOException {
         cancelled = false;
-        reader.execute(new Producer(pipeline.parser(source), src));
+        RunPipeline.Lane lane = pipeline.lendLane();
+        try {
+            runWith(source, src, lane);
+        } finally {
+            if (lane != null) {
+                pipeline.returnLane(); // the reader thread has handed over its last batch: the lane is back
+            }
+        }
+    }
+
+    private void runWith(int source, Source src, RunPipeline.Lane lane) throws IOException {
+        reader.execute(new Producer(pipeline.parser(source), src, lane));
         boolean ended = false;
         try {
             while (true) {
@@ -116,8 +129,14 @@ final class ReadAhead implements AutoCloseable {
         long[] line = b.line;
         for (int i = 0, n = b.size; i < n; i++) {
             switch (kind[i]) {
-                case RECORD -> p.parsed(source, (IterationRecord) item[i]);
-                case SEGMENT -> p.segmentParsed(b.number[i], line[i], (String) item[i]);
+                case RECORD -> {
+                    if (b.extra[i] == NOT_LENT) {
+                        p.parsed(source, (IterationRecord) item[i]);
+                    } else {
+                        p.parsed((IterationRecord) item[i], detections(b.extra[i]));
+                    }
+                }
+                case SEGMENT -> p.segmentParsed(b.number[i], line[i], (String) item[i], detections(b.extra[i]));
                 case MALFORMED -> {
                     Bad bad = (Bad) item[i];
                     p.malformed(bad.kind(), line[i], bad.detail());
@@ -125,6 +144,14 @@ final class ReadAhead implements AutoCloseable {
                 default -> Daemon.tailNotice(p, (TailNotice) item[i]);
             }
         }
+    }
+
+    /** Marks an item whose record the lent detectors did not see (no lane). */
+    private static final Object NOT_LENT = new Object();
+
+    @SuppressWarnings("unchecked")
+    private static List<Detection> detections(Object extra) {
+        return extra == NOT_LENT ? null : (List<Detection>) extra;
     }
 
     private void drain() {
@@ -190,6 +217,8 @@ final class ReadAhead implements AutoCloseable {
         private final int capacity;
         byte[] kind;
         Object[] item;
+        /** Per record or segment item: what the lent detectors emitted (null for nothing, or NOT_LENT). */
+        Object[] extra;
         long[] line;
         int[] number;
         int size;
@@ -205,6 +234,7 @@ final class ReadAhead implements AutoCloseable {
         private void allocate() {
             kind = new byte[capacity];
             item = new Object[capacity];
+            extra = new Object[capacity];
             line = new long[capacity];
             number = new int[capacity];
         }
@@ -214,11 +244,13 @@ final class ReadAhead implements AutoCloseable {
                 int cap = Math.max(2, size * 2);
                 kind = Arrays.copyOf(kind, cap);
                 item = Arrays.copyOf(item, cap);
+                extra = Arrays.copyOf(extra, cap);
                 line = Arrays.copyOf(line, cap);
                 number = Arrays.copyOf(number, cap);
             }
             kind[size] = k;
             item[size] = o;
+            extra[size] = NOT_LENT;
             line[size] = lineNo;
             number[size] = num;
             size++;
@@ -226,6 +258,7 @@ final class ReadAhead implements AutoCloseable {
 
         void clear() {
             Arrays.fill(item, 0, size, null);
+            Arrays.fill(extra, 0, size, null);
             if (kind.length > 4 * capacity) {
                 allocate(); // a line that made a great many items (a long redrawn progress line) grew it
             }
@@ -240,11 +273,14 @@ final class ReadAhead implements AutoCloseable {
     private final class Producer implements Runnable, LineHandler, ParseSink {
         private final LineParser parser;
         private final Source src;
+        /** The pipeline's lent detectors, run here right after parsing; null when none were lent. */
+        private final RunPipeline.Lane lane;
         private Batch b;
 
-        Producer(LineParser parser, Source src) {
+        Producer(LineParser parser, Source src, RunPipeline.Lane lane) {
             this.parser = parser;
             this.src = src;
+            this.lane = lane;
         }
 
         @Override
@@ -291,11 +327,17 @@ final class ReadAhead implements AutoCloseable {
         @Override
         public void record(IterationRecord record) {
             b.add(RECORD, record, 0, 0);
+            if (lane != null) {
+                b.extra[b.size - 1] = lane.record(record);
+            }
         }
 
         @Override
         public void segment(int segment, long line, String reason) {
             b.add(SEGMENT, reason, line, segment);
+            if (lane != null) {
+                b.extra[b.size - 1] = lane.segment(segment);
+            }
         }
 
         @Override

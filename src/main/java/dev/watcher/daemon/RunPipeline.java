@@ -57,14 +57,30 @@ final class RunPipeline {
     private final List<Sink> sinks = new ArrayList<>();
     private IterationRecord last;
     private int segment;
+    /** Detectors from this index on may be lent to a read-ahead's thread as a {@link Lane}. */
+    private final int laneFrom;
+    /** The run's thread observes detectors [0, observeTo): all of them unless the lane is lent. */
+    private int observeTo;
+    private Lane lent;
 
     RunPipeline(String run, List<LineParser> parsers, List<Detector> detectors, Decider decider, RunOutputs out,
             RunCounters counters, Clock clock, int joinBound) {
+        this(run, parsers, detectors, decider, out, counters, clock, joinBound, detectors.size());
+    }
+
+    /**
+     * @param laneFrom detectors from this index on share no state with the ones before (see
+     *                 {@code Detectors.SECOND_LANE_FROM}); {@code detectors.size()} for none to lend
+     */
+    RunPipeline(String run, List<LineParser> parsers, List<Detector> detectors, Decider decider, RunOutputs out,
+            RunCounters counters, Clock clock, int joinBound, int laneFrom) {
         this.run = run;
         this.parsers = List.copyOf(parsers);
         this.joiner = parsers.size() > 1 ? new RecordJoiner(parsers.size(), joinBound) : null;
         this.detectors = List.copyOf(detectors);
         this.detectorArray = this.detectors.toArray(new Detector[0]);
+        this.laneFrom = Math.max(0, Math.min(laneFrom, detectorArray.length));
+        this.observeTo = detectorArray.length;
         this.decider = decider;
         this.out = out;
         this.counters = counters;
@@ -116,15 +132,95 @@ final class RunPipeline {
     /** A record the parser of {@code source} made (joined with the other sources' when there are several). */
     void parsed(int source, IterationRecord record) {
         if (joiner == null) {
-            onRecord(record);
+            onRecord(record, null);
         } else {
             joiner.accept(source, record, records);
         }
     }
 
+    /** A record a read-ahead made, with what the lent detectors found in it on the reader thread. */
+    void parsed(IterationRecord record, List<Detection> fromLane) {
+        onRecord(record, fromLane);
+    }
+
     /** A new segment the parser recognised, before the first record of that segment. */
     void segmentParsed(int seg, long lineNo, String reason) {
-        onSegment(seg, lineNo, reason);
+        onSegment(seg, lineNo, reason, null);
+    }
+
+    /** A new segment a read-ahead's parser recognised, with what the lent detectors emitted for it. */
+    void segmentParsed(int seg, long lineNo, String reason, List<Detection> fromLane) {
+        onSegment(seg, lineNo, reason, fromLane);
+    }
+
+    /**
+     * Lends the detectors from {@code laneFrom} on to a read-ahead, which runs them on its reader thread
+     * right after parsing, record by record; the run's thread then runs only the others and passes on the
+     * lane's detections after their own, record by record, so the timeline is the same as with one thread.
+     * Null when there is nothing to lend, or when records are joined from several sources (the join happens
+     * on the run's thread). Until {@link #returnLane}, only the read-ahead's thread may touch the lane.
+     */
+    Lane lendLane() {
+        if (joiner != null || laneFrom >= detectorArray.length || lent != null) {
+            return null;
+        }
+        lent = new Lane(segment, lastIter());
+        observeTo = laneFrom;
+        return lent;
+    }
+
+    /** The read-ahead is done with the lane (its reader thread has handed over its last batch). */
+    void returnLane() {
+        lent = null;
+        observeTo = detectorArray.length;
+    }
+
+    /**
+     * The lent detectors, driven by a read-ahead's reader thread in the order the parser emits records and
+     * segments; it mirrors the run's thread's segment filter and last iteration.
+     */
+    final class Lane {
+        private int laneSegment;
+        private long laneLastIter;
+        private List<Detection> found;
+        private final Consumer<Detection> collect = d -> {
+            if (found == null) {
+                found = new ArrayList<>(2);
+            }
+            found.add(d);
+        };
+
+        private Lane(int segment, long lastIter) {
+            this.laneSegment = segment;
+            this.laneLastIter = lastIter;
+        }
+
+        /** Runs the lent detectors over a record; their detections, or null when there were none. */
+        List<Detection> record(IterationRecord r) {
+            laneLastIter = r.iter();
+            for (int i = laneFrom; i < detectorArray.length; i++) {
+                detectorArray[i].observe(r, collect);
+            }
+            return take();
+        }
+
+        /** Passes a new segment to the lent detectors (unless the run's thread will ignore it too). */
+        List<Detection> segment(int seg) {
+            if (seg <= laneSegment) {
+                return null;
+            }
+            laneSegment = seg;
+            for (int i = laneFrom; i < detectorArray.length; i++) {
+                detectorArray[i].segment(seg, laneLastIter, collect);
+            }
+            return take();
+        }
+
+        private List<Detection> take() {
+            List<Detection> f = found;
+            found = null;
+            return f;
+        }
     }
 
     /** Bad input found below the parser (the reader): counted and skipped like a malformed line. */
@@ -187,16 +283,26 @@ final class RunPipeline {
     }
 
     private void onRecord(IterationRecord r) {
+        onRecord(r, null);
+    }
+
+    private void onRecord(IterationRecord r, List<Detection> fromLane) {
         counters.addRecord();
         last = r;
         out.record(r);
         Consumer<Detection> sink = detections;
-        for (Detector d : detectorArray) {
-            d.observe(r, sink);
+        Detector[] ds = detectorArray;
+        for (int i = 0, n = observeTo; i < n; i++) {
+            ds[i].observe(r, sink);
+        }
+        if (fromLane != null) {
+            for (Detection d : fromLane) {
+                onDetection(d);
+            }
         }
     }
 
-    private void onSegment(int seg, long lineNo, String reason) {
+    private void onSegment(int seg, long lineNo, String reason, List<Detection> fromLane) {
         if (seg <= segment) {
             return;
         }
@@ -204,8 +310,13 @@ final class RunPipeline {
         counters.segments.incrementAndGet();
         long iter = lastIter();
         out.event(PendingEvent.run(run, iter, "segment", reason + " (line " + lineNo + ")"));
-        for (Detector d : detectorArray) {
-            d.segment(seg, iter, detections);
+        for (int i = 0; i < observeTo; i++) {
+            detectorArray[i].segment(seg, iter, detections);
+        }
+        if (fromLane != null) {
+            for (Detection d : fromLane) {
+                onDetection(d);
+            }
         }
         out.segment(seg, iter);
     }

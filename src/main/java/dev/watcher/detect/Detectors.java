@@ -12,6 +12,15 @@ public final class Detectors {
     private Detectors() {
     }
 
+    /**
+     * The detectors of {@link #standard} from this index on share no state with the ones before it (the
+     * record's logarithms and the rise trackers' cores are shared only among the first ones). A caller may
+     * run the two parts on two threads, provided each part sees every record and segment in order and, per
+     * record, the first part's detections are passed on before the second part's: the detections and their
+     * order are then those of one thread.
+     */
+    public static final int SECOND_LANE_FROM = 5;
+
     /** A fresh set of detectors for one run, reading their parameters from {@code settings}. */
     public static List<Detector> standard(DetectSettings settings) {
         List<Detector> all = new ArrayList<>();

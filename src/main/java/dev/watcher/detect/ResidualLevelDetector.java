@@ -30,9 +30,15 @@ final class ResidualLevelDetector implements Detector {
     /** Descending. */
     private final double[] levels;
     private final PerName<State> states;
+    /** One bit per level. */
+    private final long all;
 
     ResidualLevelDetector(DetectSettings settings) {
         levels = parseLevels(settings.text(LEVELS, "1e-3,1e-4,1e-5,1e-6"));
+        if (levels.length > 63) {
+            throw new IllegalArgumentException("at most 63 residual levels, found " + levels.length);
+        }
+        all = (1L << levels.length) - 1;
         states = new PerName<>(State::new);
     }
 
@@ -51,19 +57,18 @@ final class ResidualLevelDetector implements Detector {
 
     private final class State {
         final String name;
-        /** above[k]: the residual was at or above levels[k] earlier in this segment. */
-        final boolean[] above = new boolean[levels.length];
-        final boolean[] announced = new boolean[levels.length];
-        int remaining = levels.length;
+        /** Bit k: the residual was at or above levels[k] earlier in this segment. */
+        long above;
+        /** Bit k: the fall below levels[k] was announced in this segment. */
+        long announced;
 
         State(String name) {
             this.name = name;
         }
 
         void reset() {
-            java.util.Arrays.fill(above, false);
-            java.util.Arrays.fill(announced, false);
-            remaining = levels.length;
+            above = 0;
+            announced = 0;
         }
     }
 
@@ -72,19 +77,27 @@ final class ResidualLevelDetector implements Detector {
         Samples res = r.residuals();
         double[] v = res.values();
         List<State> slots = states.slots(res.names());
+        double[] lv = levels;
         for (int i = 0; i < v.length; i++) {
             double x = v[i];
             State s = slots.get(i);
-            if (s.remaining == 0 || !(x >= 0) || x == Double.POSITIVE_INFINITY) {
+            if (s.announced == all || !(x >= 0) || x == Double.POSITIVE_INFINITY) {
                 continue; // all levels announced, or NaN/negative/infinite: not a level
             }
-            for (int k = 0; k < levels.length; k++) { // highest level first
-                if (x >= levels[k]) {
-                    s.above[k] = true;
-                } else if (s.above[k] && !s.announced[k]) {
-                    s.announced[k] = true;
-                    s.remaining--;
-                    out.accept(event(r, s.name, levels[k], x));
+            // levels descend: x is below levels[0..f) and at or above levels[f..]
+            int f = 0;
+            while (f < lv.length && x < lv[f]) {
+                f++;
+            }
+            long below = (1L << f) - 1;
+            long fresh = s.above & below & ~s.announced;
+            s.above |= all & ~below;
+            if (fresh != 0) {
+                s.announced |= fresh;
+                for (int k = 0; k < f; k++) { // highest level first
+                    if ((fresh & (1L << k)) != 0) {
+                        out.accept(event(r, s.name, lv[k], x));
+                    }
                 }
             }
         }

@@ -19,7 +19,7 @@ public final class Detectors {
      * record, the first part's detections are passed on before the second part's: the detections and their
      * order are then those of one thread.
      */
-    public static final int SECOND_LANE_FROM = 5;
+    public static final int SECOND_LANE_FROM = 4;
 
     /** A fresh set of detectors for one run, reading their parameters from {@code settings}. */
     public static List<Detector> standard(DetectSettings settings) {

@@ -2,7 +2,6 @@ package dev.watcher.detect;
 
 import dev.watcher.detect.stats.Cusum;
 import dev.watcher.detect.stats.MannKendall;
-import dev.watcher.detect.stats.RollingWindow;
 import dev.watcher.detect.stats.TheilSen;
 
 /**
@@ -72,7 +71,7 @@ final class RiseTracker {
         this.riseNoise = p.riseNoise();
         this.recoveredMargin = p.recoveredMargin();
         this.maxRequired = p.maxRequired();
-        this.baselineWindow = Math.max(core.logs.capacity(), p.baselineWindow());
+        this.baselineWindow = Math.max(core.window.capacity(), p.baselineWindow());
         if (baselineWindow > core.levelCapacity()) {
             throw new IllegalArgumentException("core keeps " + core.levelCapacity() + " levels, not " + baselineWindow);
         }
@@ -179,7 +178,7 @@ final class RiseTracker {
 
     /** How far the raw values fell within the window before the baseline minimum (0 when they did not). */
     double fall(double[] ys) {
-        int n = core.logs.copyTo(ys);
+        int n = core.window.copyLogs(ys);
         int since = (int) Math.min(n, core.count - minAt() + 1);
         double max = Double.NEGATIVE_INFINITY;
         for (int i = 0; i < n - since; i++) {
@@ -190,8 +189,8 @@ final class RiseTracker {
 
     /** The late phase: values since the baseline minimum (at most the window); null when fewer than MIN_LATE. */
     Late late(double[] xs, double[] ys) {
-        int n = core.iters.copyTo(xs);
-        core.logs.copyTo(ys);
+        int n = core.window.copyIters(xs);
+        core.window.copyLogs(ys);
         int since = (int) Math.min(n, core.count - minAt() + 1);
         if (since < MIN_LATE) {
             return null;
@@ -206,13 +205,13 @@ final class RiseTracker {
 
     /** The Theil–Sen fit of the whole window (for resolution after a restart). */
     TheilSen window(double[] xs, double[] ys) {
-        int n = core.iters.copyTo(xs);
-        core.logs.copyTo(ys);
+        int n = core.window.copyIters(xs);
+        core.window.copyLogs(ys);
         return TheilSen.fit(xs, ys, n, 0.95);
     }
 
     int size() {
-        return core.logs.size();
+        return core.window.size();
     }
 
     record Late(TheilSen fit, MannKendall trend) {
@@ -239,8 +238,8 @@ final class RiseTracker {
         final String name;
         final int warmup;
         private final double minScale;
-        private final RollingWindow iters;
-        private final RollingWindow logs;
+        /** The last {@code window} iterations and values, in one ring. */
+        private final Window window;
         private final Cusum cusum;
         private long stamp = Long.MIN_VALUE;
         long count;
@@ -266,8 +265,7 @@ final class RiseTracker {
             this.name = name;
             this.warmup = warmup;
             this.minScale = minScale;
-            iters = new RollingWindow(window);
-            logs = new RollingWindow(window);
+            this.window = new Window(window);
             cusum = new Cusum(cusumK, cusumH, 0);
             levels = new double[Integer.highestOneBit(Math.max(16, levelWindow) * 2 - 1)];
             blockMins = new double[Integer.highestOneBit((levels.length / 16 + 2) * 2 - 1)];
@@ -356,8 +354,7 @@ final class RiseTracker {
                 holtLevel = level;
             }
             last = y;
-            iters.add(iter);
-            logs.add(y);
+            window.add(iter, y);
             if (count > warmup) {
                 minRaw = Math.min(minRaw, y);
                 k++;
@@ -369,8 +366,7 @@ final class RiseTracker {
 
         /** Starts a new segment (idempotent until the next value). */
         void reset() {
-            iters.clear();
-            logs.clear();
+            window.clear();
             cusum.reset();
             count = 0;
             k = 0;
@@ -440,6 +436,64 @@ final class RiseTracker {
                     Math.max(1, s.integer(prefix + "eval_every", 3)),
                     s.number(prefix + "recovered_margin", 0.3),
                     s.number(prefix + "max_required", 2.0));
+        }
+    }
+
+    /** A fixed-capacity ring of (iteration, value) pairs, oldest first: one index for both. */
+    static final class Window {
+        private final double[] iters;
+        private final double[] logs;
+        private int start;
+        private int size;
+
+        Window(int capacity) {
+            iters = new double[capacity];
+            logs = new double[capacity];
+        }
+
+        void add(long iter, double y) {
+            int cap = logs.length;
+            int at;
+            if (size < cap) {
+                at = start + size;
+                if (at >= cap) {
+                    at -= cap;
+                }
+                size++;
+            } else {
+                at = start;
+                start = start + 1 == cap ? 0 : start + 1;
+            }
+            iters[at] = iter;
+            logs[at] = y;
+        }
+
+        int size() {
+            return size;
+        }
+
+        int capacity() {
+            return logs.length;
+        }
+
+        int copyIters(double[] dst) {
+            return copy(iters, dst);
+        }
+
+        int copyLogs(double[] dst) {
+            return copy(logs, dst);
+        }
+
+        private int copy(double[] ring, double[] dst) {
+            int first = Math.min(size, ring.length - start);
+            System.arraycopy(ring, start, dst, 0, first);
+            System.arraycopy(ring, 0, dst, first, size - first);
+            return size;
+        }
+
+        void clear() {
+            start = 0;
+            size = 0;
         }
     }
 }

@@ -215,6 +215,13 @@ class PipelinedReplayIT {
         }
         assertTrue(reference.items.stream().anyMatch(s -> s.startsWith("segment 1 ")), "the restart's segment");
         assertTrue(reference.items.stream().anyMatch(s -> s.contains("\"type\":\"detection\"")), "detections");
+        // detections of detectors on both sides of Detectors.SECOND_LANE_FROM, so the pipelined path below
+        // compares the lane's hand-over too (residual-level runs on the run's thread, converged and
+        // monitor-settled on the reader thread)
+        for (String pattern : List.of("residual-level", "monitor-settled", "converged")) {
+            assertTrue(reference.items.stream().anyMatch(s -> s.contains("\"pattern\":\"" + pattern + "\"")),
+                    "a " + pattern + " detection");
+        }
 
         for (int batch : new int[] {1, 2, 7, 64, ReadAhead.BATCH}) {
             assertSameItems(reference.items, pipelined(spec, batch).items, "batch " + batch);
@@ -247,6 +254,13 @@ class PipelinedReplayIT {
         Trace reference = direct(spec);
         assertTrue(reference.items.stream().anyMatch(s -> s.startsWith("record 1200 ")), "joined to the end");
         assertTrue(reference.items.stream().anyMatch(s -> s.contains("\"type\":\"detection\"")), "detections");
+        // detections of detectors on both sides of Detectors.SECOND_LANE_FROM, so the pipelined path below
+        // compares the lane's hand-over too (residual-level runs on the run's thread, converged and
+        // monitor-settled on the reader thread)
+        for (String pattern : List.of("residual-level", "monitor-settled", "converged")) {
+            assertTrue(reference.items.stream().anyMatch(s -> s.contains("\"pattern\":\"" + pattern + "\"")),
+                    "a " + pattern + " detection");
+        }
         for (int batch : new int[] {1, 5, ReadAhead.BATCH}) {
             assertSameItems(reference.items, pipelined(spec, batch).items, "batch " + batch);
         }

@@ -2,6 +2,7 @@ package dev.watcher.detect;
 
 import dev.watcher.detect.stats.QuadraticFit;
 import dev.watcher.detect.stats.RollingWindow;
+import dev.watcher.detect.stats.Periodogram;
 import dev.watcher.detect.stats.SeasonalKendall;
 import dev.watcher.model.Detection;
 import dev.watcher.model.DetectionState;
@@ -358,52 +359,8 @@ final class RisingPeaksDetector implements Detector {
         for (int i = 0; i < n; i++) {
             d[i] = y[i] - slope * (i - mt);
         }
-        int lag = firstAutocorrelationPeak(d, n, 2, maxLag, periodAcf);
+        int lag = Periodogram.firstAutocorrelationPeak(d, n, 2, maxLag, periodAcf);
         return lag < 2 ? 1 : lag;
-    }
-
-    /**
-     * The first local maximum of the sample autocorrelation of {@code x[0..n)} in lags [minLag, maxLag] above
-     * {@code threshold}, or -1: the same lag as {@code Periodogram.firstAutocorrelationPeak}, found lag by lag
-     * and stopped at the first one (O(n) per lag examined, nothing allocated).
-     */
-    private static int firstAutocorrelationPeak(double[] x, int n, int minLag, int maxLag, double threshold) {
-        int hi = Math.min(maxLag, n - 2);
-        if (hi < Math.max(1, minLag)) {
-            return -1;
-        }
-        double mean = 0;
-        for (int i = 0; i < n; i++) {
-            mean += x[i];
-        }
-        mean /= n;
-        double den = 0;
-        for (int i = 0; i < n; i++) {
-            den += (x[i] - mean) * (x[i] - mean);
-        }
-        if (den == 0) {
-            return -1;
-        }
-        int from = Math.max(1, minLag);
-        double before = acf(x, n, mean, den, from - 1);
-        double at = acf(x, n, mean, den, from);
-        for (int lag = from; lag <= hi; lag++) {
-            double after = acf(x, n, mean, den, lag + 1);
-            if (at > threshold && at >= before && at >= after) {
-                return lag;
-            }
-            before = at;
-            at = after;
-        }
-        return -1;
-    }
-
-    private static double acf(double[] x, int n, double mean, double den, int lag) {
-        double num = 0;
-        for (int i = 0; i + lag < n; i++) {
-            num += (x[i] - mean) * (x[i + lag] - mean);
-        }
-        return num / den;
     }
 
     private Map<String, Object> evidence(String eq, SeasonalKendall t) {

@@ -152,6 +152,7 @@ public record Periodogram(int length, double period, double coarse, FisherG fish
     /**
      * The first local maximum of the sample autocorrelation of {@code x[0..n)} in lags [minLag, maxLag] that
      * exceeds {@code threshold}, or -1. A simple period estimate for short series (e.g. per-step peaks).
+     * Found lag by lag and stopped at the first one: O(n) per lag examined, nothing allocated.
      */
     public static int firstAutocorrelationPeak(double[] x, int n, int minLag, int maxLag, double threshold) {
         int hi = Math.min(maxLag, n - 2);
@@ -170,20 +171,26 @@ public record Periodogram(int length, double period, double coarse, FisherG fish
         if (den == 0) {
             return -1;
         }
-        double[] r = new double[hi + 2];
-        for (int lag = Math.max(0, minLag - 1); lag <= hi + 1; lag++) {
-            double num = 0;
-            for (int i = 0; i + lag < n; i++) {
-                num += (x[i] - mean) * (x[i + lag] - mean);
-            }
-            r[lag] = num / den;
-        }
-        for (int lag = Math.max(1, minLag); lag <= hi; lag++) {
-            if (r[lag] > threshold && r[lag] >= r[lag - 1] && r[lag] >= r[lag + 1]) {
+        int from = Math.max(1, minLag);
+        double before = acf(x, n, mean, den, from - 1);
+        double at = acf(x, n, mean, den, from);
+        for (int lag = from; lag <= hi; lag++) {
+            double after = acf(x, n, mean, den, lag + 1);
+            if (at > threshold && at >= before && at >= after) {
                 return lag;
             }
+            before = at;
+            at = after;
         }
         return -1;
+    }
+
+    private static double acf(double[] x, int n, double mean, double den, int lag) {
+        double num = 0;
+        for (int i = 0; i + lag < n; i++) {
+            num += (x[i] - mean) * (x[i + lag] - mean);
+        }
+        return num / den;
     }
 
     private static double refine(double[] d, int n, double coarse) {

@@ -155,17 +155,32 @@ final class ReadAhead implements AutoCloseable {
     }
 
     private void drain() {
-        boolean interrupted = Thread.interrupted();
+        while (true) {
+            Batch b = uninterruptibly(full::take);
+            boolean last = b.last;
+            b.clear();
+            free.add(b);
+            if (last) {
+                return;
+            }
+        }
+    }
+
+    /** A blocking queue operation that an interrupt cannot break off. */
+    private interface Wait<T> {
+        T call() throws InterruptedException;
+    }
+
+    /**
+     * Runs {@code w} until it completes, however often the thread is interrupted meanwhile; an interrupt is
+     * kept and passed on afterwards. For the waits that must end for the ring of batches to come back whole.
+     */
+    private static <T> T uninterruptibly(Wait<T> w) {
+        boolean interrupted = false;
         try {
             while (true) {
                 try {
-                    Batch b = full.take();
-                    boolean last = b.last;
-                    b.clear();
-                    free.add(b);
-                    if (last) {
-                        return;
-                    }
+                    return w.call();
                 } catch (InterruptedException e) {
                     interrupted = true;
                 }
@@ -348,38 +363,14 @@ final class ReadAhead implements AutoCloseable {
         // The ring always comes back whole (the run's thread returns every batch it takes, and drains when it
         // gives up), so these waits end; an interrupt of the reader thread is kept and passed on afterwards.
         private Batch takeFree() {
-            boolean interrupted = false;
-            try {
-                while (true) {
-                    try {
-                        return free.take();
-                    } catch (InterruptedException e) {
-                        interrupted = true;
-                    }
-                }
-            } finally {
-                if (interrupted) {
-                    Thread.currentThread().interrupt();
-                }
-            }
+            return uninterruptibly(free::take);
         }
 
         private void putFull(Batch x) {
-            boolean interrupted = false;
-            try {
-                while (true) {
-                    try {
-                        full.put(x);
-                        return;
-                    } catch (InterruptedException e) {
-                        interrupted = true;
-                    }
-                }
-            } finally {
-                if (interrupted) {
-                    Thread.currentThread().interrupt();
-                }
-            }
+            uninterruptibly(() -> {
+                full.put(x);
+                return x;
+            });
         }
     }
 

@@ -242,6 +242,12 @@ class LivePageBrowserIT {
                 await().atMost(Duration.ofSeconds(60)).pollInterval(Duration.ofMillis(300)).ignoreExceptions()
                         .until(() -> check(cdp).path("charts").asInt() == 9 && check(cdp).path("nonBlank").asInt() == 9);
 
+                // the page opens its event stream once its plots are built: what is sent before that is
+                // not streamed to it (the stream's hello carries the state, not the events), so the writer
+                // starts only once the stream is open
+                await().atMost(Duration.ofSeconds(60)).pollInterval(Duration.ofMillis(100)).ignoreExceptions()
+                        .until(() -> "open".equals(cdp.eval("document.getElementById('link').dataset.state || ''")));
+
                 // the logs grow while the page is open
                 Thread writer = new Thread(() -> {
                     for (long i = 601; i <= 900; i++) {

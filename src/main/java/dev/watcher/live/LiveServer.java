@@ -39,9 +39,10 @@ import org.slf4j.LoggerFactory;
  * <tr><td>/</td><td>the page (runs, latest values, open conditions, forecasts, live plots with level lines, timelines)</td></tr>
  * <tr><td>/assets/NAME</td><td>the page's own script and style and the plotting library, from the classpath;
  * a fixed list of names, nothing else is served (no directory listing, no file system)</td></tr>
- * <tr><td>/events</td><td>server-sent events: {@code hello} (every run) on connect, then {@code progress}
- * (a run's status with its forecasts, at most four times per second per run, when it changed) and
- * {@code timeline} (each event as the timeline writes it)</td></tr>
+ * <tr><td>/events</td><td>server-sent events: {@code hello} (every run) on connect, then the timeline events
+ * the client has not seen (see below), then {@code progress} (a run's status with its forecasts, at most four
+ * times per second per run, when it changed) and {@code timeline} (each event as the timeline writes it, with
+ * {@code RUN:SEQ} as its id)</td></tr>
  * <tr><td>/api/runs</td><td>every run's status as JSON</td></tr>
  * <tr><td>/api/plots?run=R</td><td>the run's bounded history and the level lines of its residual plot</td></tr>
  * <tr><td>/api/events?run=R&amp;max=N</td><td>the run's last timeline events</td></tr>
@@ -49,6 +50,12 @@ import org.slf4j.LoggerFactory;
  * the registry holds)</td></tr>
  * <tr><td>/health</td><td>{@code {"status":"up","runs":N}}</td></tr>
  * </table>
+ *
+ * <p>Nothing lost between the page's snapshot and its stream: the server holds the last
+ * {@value #BACKLOG_MAX} timeline events it streamed (all runs together) and replays to a connecting client those
+ * after the position it names, {@code /events?after=RUN:SEQ,...} (the page: the highest seq of each run in the
+ * snapshot it loaded) or the standard {@code Last-Event-ID} header (a browser's reconnect), as
+ * {@link StreamBacklog} describes. A client that names no position gets the live stream only.
  *
  * <p>Access: on a loopback address the token is optional; any other address refuses to start without one.
  * With a token, every request must carry it ({@code Authorization: Bearer TOKEN} or {@code ?token=TOKEN});
@@ -65,6 +72,8 @@ public final class LiveServer implements AutoCloseable {
     private static final long TICK_MS = 250;
     private static final long HEARTBEAT_MS = 15_000;
     private static final int EVENTS_MAX = 200;
+    /** Timeline events held for replay to connecting clients, all runs together. */
+    static final int BACKLOG_MAX = 1000;
     private static final String PROMETHEUS_TEXT = "text/plain; version=0.0.4; charset=utf-8";
     private static final String CSP = "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; "
             + "img-src 'self' data:; connect-src 'self'; base-uri 'none'; form-action 'none'; "
@@ -79,6 +88,8 @@ public final class LiveServer implements AutoCloseable {
     private final Map<String, Asset> assets;
     private final String page;
     private final List<Client> clients = new CopyOnWriteArrayList<>();
+    /** Guards the backlog, and orders each new event's push against a client's replay and listing. */
+    private final StreamBacklog backlog = new StreamBacklog(BACKLOG_MAX);
     private final Map<String, String> lastSent = new HashMap<>();
     private HttpServer server;
     private long tickTimer = -1;
@@ -218,7 +229,11 @@ public final class LiveServer implements AutoCloseable {
     public void onEvent(TimelineEvent e) {
         try {
             metrics.onEvent(e);
-            broadcast(sse("timeline", LiveJson.event(e)));
+            String chunk = "id: " + StreamBacklog.id(e.run(), e.seq()) + "\n" + sse("timeline", LiveJson.event(e));
+            synchronized (backlog) {
+                backlog.add(new StreamBacklog.Entry(e.run(), e.seq(), chunk));
+                broadcast(chunk);
+            }
         } catch (RuntimeException ex) {
             LOG.debug("live view: event not pushed", ex);
         }
@@ -350,10 +365,18 @@ public final class LiveServer implements AutoCloseable {
         for (RunStatus s : runs) {
             all.add(LiveJson.status(s));
         }
-        // written on the connection's context before the client is listed: later pushes are queued behind it
-        r.write("retry: 3000\n\n" + sse("hello", all));
+        StringBuilder first = new StringBuilder("retry: 3000\n\n").append(sse("hello", all));
         Client c = new Client(r, vertx.getOrCreateContext());
-        clients.add(c);
+        synchronized (backlog) {
+            // what the client has not seen, and the client listed, at one instant: an event pushed after this
+            // block is queued on this context behind the write below, an event pushed before is in the replay
+            for (String chunk : backlog.replay(ctx.request().getHeader("Last-Event-ID"),
+                    ctx.request().getParam("after"))) {
+                first.append(chunk);
+            }
+            clients.add(c);
+        }
+        r.write(first.toString());
         r.closeHandler(v -> clients.remove(c));
         r.exceptionHandler(t -> clients.remove(c));
     }

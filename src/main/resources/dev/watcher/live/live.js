@@ -95,8 +95,8 @@
     runsEl.appendChild(card);
     document.getElementById('empty').hidden = true;
     r = { name: status.run, card: card, badge: badge, counts: counts, conds: conds, values: values,
-      outlook: outlook, resBox: resBox, monPlots: monPlots, events: body, seqs: new Set(), res: null, mons: new Map(),
-      loaded: false, status: status };
+      outlook: outlook, resBox: resBox, monPlots: monPlots, events: body, seqs: new Set(), floor: 0, maxSeq: 0,
+      eventsLoaded: false, res: null, mons: new Map(), loaded: false, status: status };
     runs.set(status.run, r);
     check.runs = runs.size;
     updateCard(r, status);
@@ -427,10 +427,16 @@
 
   var SEV_MARK = { critical: '!!', warning: '!', info: '·' };
 
+  // The table holds the run's MAX_EVENTS highest seqs, newest first, whatever order they come in (snapshot,
+  // replay, live). Memory stays bounded: the seqs shown, and the highest seq that fell off the end (a seq at or
+  // below it is older than every row and would fall off at once).
   function addEvent(r, ev) {
-    if (r.seqs.has(ev.seq)) return;
-    r.seqs.add(ev.seq);
+    var seq = num(ev.seq);
+    if (!isFinite(seq) || r.seqs.has(seq) || seq <= r.floor) return false;
+    r.seqs.add(seq);
+    if (seq > r.maxSeq) r.maxSeq = seq;
     var tr = el('tr');
+    tr.dataset.seq = String(seq);
     var sev = el('td', 'sev', SEV_MARK[ev.severity] || '·');
     sev.dataset.sev = ev.severity;
     sev.title = ev.severity;
@@ -445,13 +451,22 @@
     tr.appendChild(el('td', null, ev.summary || ev.error || ''));
     var quiet = r.events.querySelector('.quiet');
     if (quiet) quiet.remove();
-    r.events.insertBefore(tr, r.events.firstChild);
-    while (r.events.children.length > MAX_EVENTS) r.events.removeChild(r.events.lastChild);
+    var next = r.events.firstChild;
+    while (next && num(next.dataset.seq) > seq) next = next.nextSibling;
+    r.events.insertBefore(tr, next);
+    while (r.events.children.length > MAX_EVENTS) {
+      var gone = num(r.events.lastChild.dataset.seq);
+      r.seqs.delete(gone);
+      if (gone > r.floor) r.floor = gone;
+      r.events.removeChild(r.events.lastChild);
+    }
+    return true;
   }
 
   function loadEvents(r) {
     return getJson('api/events', { run: r.name, max: MAX_EVENTS }).then(function (list) {
       list.forEach(function (ev) { addEvent(r, ev); });
+      r.eventsLoaded = true;
       if (r.events.children.length === 0) {
         var tr = el('tr', 'quiet');
         tr.appendChild(el('td', null, 'nothing on the timeline yet'));
@@ -553,9 +568,18 @@
 
   // --- the stream ---------------------------------------------------------------------------------------
 
+  // What the page holds: the highest seq of each run's timeline. The server replays what came after it before
+  // going live; a reconnect of the EventSource names its last event by the standard Last-Event-ID header.
+  function seen() {
+    var parts = [];
+    runs.forEach(function (r) { parts.push(encodeURIComponent(r.name) + ':' + r.maxSeq); });
+    return parts.join(',');
+  }
+
   function connect() {
     var link = document.getElementById('link');
-    var es = new EventSource(url('events'));
+    var after = seen();
+    var es = new EventSource(url('events', after ? { after: after } : {}));
     es.onopen = function () { link.dataset.state = 'open'; link.textContent = 'live'; };
     es.onerror = function () { link.dataset.state = 'lost'; link.textContent = 'reconnecting…'; };
     es.addEventListener('hello', function (m) {
@@ -577,7 +601,11 @@
       var ev = JSON.parse(m.data);
       check.timeline++;
       var r = runs.get(ev.run);
-      if (r) addEvent(r, ev);
+      if (r) {
+        var before = r.maxSeq;
+        // seqs of a run go up by one: a gap means events the stream no longer held; take the run's recent ones
+        if (addEvent(r, ev) && r.eventsLoaded && before > 0 && num(ev.seq) > before + 1) loadEvents(r).catch(report);
+      }
       scheduleCheck();
     });
   }

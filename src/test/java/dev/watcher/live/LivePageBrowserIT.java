@@ -236,15 +236,19 @@ class LivePageBrowserIT {
             try (Cdp cdp = Cdp.connect(port)) {
                 cdp.call("Emulation.setDeviceMetricsOverride", Map.of("width", 1360, "height", 1500,
                         "deviceScaleFactor", 1, "mobile", false));
+                // journaled but not in the source's recent events the page loads (as when it is journaled after
+                // the page's snapshot and before its stream connects): the stream must replay it
+                live.onEvent(new TimelineEvent(2, "header", EventType.DETECTION, Instant.parse("2026-12-02T02:10:01Z"),
+                        610, "resolved", Severity.INFO, Map.of("pattern", Patterns.STALLED_OSCILLATION,
+                                "summary", "residuals fall again below 1e-3")));
                 cdp.call("Page.navigate", Map.of("url", live.url() + "?token=" + token));
                 // residuals + monitor plots: header 4 equations + 1 monitor, fan 2 equations + 2 monitors,
                 // intake 4 equations + 3 monitors
                 await().atMost(Duration.ofSeconds(60)).pollInterval(Duration.ofMillis(300)).ignoreExceptions()
                         .until(() -> check(cdp).path("charts").asInt() == 9 && check(cdp).path("nonBlank").asInt() == 9);
 
-                // the page opens its event stream once its plots are built: what is sent before that is
-                // not streamed to it (the stream's hello carries the state, not the events), so the writer
-                // starts only once the stream is open
+                // the page opens its event stream once its plots are built; progress sent before that is not
+                // replayed (the stream's hello carries the state), so the writer starts once the stream is open
                 await().atMost(Duration.ofSeconds(60)).pollInterval(Duration.ofMillis(100)).ignoreExceptions()
                         .until(() -> "open".equals(cdp.eval("document.getElementById('link').dataset.state || ''")));
 
@@ -260,7 +264,7 @@ class LivePageBrowserIT {
                     }
                 });
                 writer.start();
-                live.onEvent(new TimelineEvent(2, "header", EventType.NOTICE, Instant.parse("2026-12-02T02:10:03Z"),
+                live.onEvent(new TimelineEvent(3, "header", EventType.NOTICE, Instant.parse("2026-12-02T02:10:03Z"),
                         640, "sent", Severity.WARNING, Map.of("channel", "ops-mail", "notice_id", "n-1",
                                 "pattern", Patterns.STALLED_OSCILLATION)));
                 writer.join();
@@ -268,7 +272,7 @@ class LivePageBrowserIT {
                         .until(() -> cdp.eval("document.querySelector('.run .counts').textContent")
                                 .startsWith("iteration 900 "));
                 await().atMost(Duration.ofSeconds(30)).pollInterval(Duration.ofMillis(300)).ignoreExceptions()
-                        .until(() -> check(cdp).path("livePoints").asInt() > 0 && check(cdp).path("timeline").asInt() == 1);
+                        .until(() -> check(cdp).path("livePoints").asInt() > 0 && check(cdp).path("timeline").asInt() == 2);
 
                 JsonNode c = check(cdp);
                 assertEquals(3, c.path("runs").asInt(), c.toString());
@@ -279,6 +283,9 @@ class LivePageBrowserIT {
                 String timeline = cdp.eval("document.querySelector('.run .timeline').textContent");
                 assertTrue(timeline.contains("notice sent · ops-mail"), timeline);
                 assertTrue(timeline.contains("residuals bounce around"), timeline);
+                assertTrue(timeline.contains("residuals fall again below 1e-3"), "replayed to the page: " + timeline);
+                assertEquals("[\"3\",\"2\",\"1\"]", cdp.eval("JSON.stringify(Array.from(document.querySelector('.run')"
+                        + ".querySelectorAll('.timeline tr')).map(function(tr){return tr.dataset.seq;}))"), "newest first, each once");
                 assertEquals("0", cdp.eval("String(document.querySelectorAll('main b').length)"),
                         "a run's name is shown as text, never as markup");
                 assertTrue(cdp.eval("document.body.textContent").contains("fan <b>loop</b>"));

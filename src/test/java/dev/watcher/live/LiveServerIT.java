@@ -29,6 +29,8 @@ import io.vertx.core.http.HttpClientResponse;
 import io.vertx.core.http.HttpMethod;
 import io.vertx.core.http.RequestOptions;
 import java.io.InputStream;
+import java.net.URLEncoder;
+import java.nio.charset.StandardCharsets;
 import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
@@ -170,6 +172,118 @@ class LiveServerIT {
         assertEquals("2026-12-02T03:04:05.678Z", ev.path("at").asText());
         assertEquals("critical", ev.path("severity").asText());
         resp.request().connection().close();
+    }
+
+    /** Opens the event stream at {@code path}, with a {@code Last-Event-ID} header when it is not null. */
+    private Stream open(LiveServer s, String path, String lastEventId) throws Exception {
+        Sse sse = new Sse();
+        RequestOptions o = new RequestOptions().setHost("127.0.0.1").setPort(s.port()).setURI(path)
+                .setMethod(HttpMethod.GET);
+        if (lastEventId != null) {
+            o.putHeader("Last-Event-ID", lastEventId);
+        }
+        HttpClientResponse resp = get(client.request(o).compose(r -> r.send())
+                .map(r -> r.handler(b -> sse.feed(b.toString()))));
+        assertEquals(200, resp.statusCode());
+        return new Stream(sse, resp);
+    }
+
+    private record Stream(Sse sse, HttpClientResponse response) {
+        List<Sse.Message> timeline() {
+            return sse.messages().stream().filter(m -> m.event().equals("timeline")).toList();
+        }
+
+        void close() {
+            response.request().connection().close();
+        }
+    }
+
+    private static long seq(Sse.Message m) throws Exception {
+        return JSON.readTree(m.data()).path("seq").asLong();
+    }
+
+    private static List<String> runSeqs(List<Sse.Message> ms) throws Exception {
+        List<String> out = new ArrayList<>();
+        for (Sse.Message m : ms) {
+            JsonNode n = JSON.readTree(m.data());
+            out.add(n.path("run").asText() + "#" + n.path("seq").asLong());
+        }
+        return out;
+    }
+
+    /** The daemon's journal hands each event to the source (the page's snapshot) and then to the server. */
+    private static void journal(RecordedRuns runs, LiveServer s, TimelineEvent e) {
+        runs.event(e);
+        s.onEvent(e);
+    }
+
+    /**
+     * Regression: the page takes its snapshot (the runs' recent events), builds its plots and only then opens
+     * the stream; an event journaled in between was neither in the snapshot nor streamed to it. The client here
+     * does what the page does: it names the highest seq of each run in its snapshot ({@code after}); and, when
+     * it reconnects, the last event id it received in the standard {@code Last-Event-ID} header (HTML Living
+     * Standard, "Server-sent events": the id field sets the last event ID, which a reconnecting EventSource
+     * sends in that header).
+     */
+    @Test
+    void eventsJournaledBetweenTheSnapshotAndTheStreamReachTheClientAndAReconnectLosesNothing() throws Exception {
+        String fan = "fan: loop, 2%";
+        runs.record("header", SolverFeed.record(1), 1);
+        runs.record(fan, SolverFeed.record(1), 1);
+        LiveServer s = start(null);
+        for (long k = 1; k <= 3; k++) {
+            journal(runs, s, detection(k, "header", 10 * k, Patterns.RESIDUAL_LEVEL));
+        }
+        journal(runs, s, detection(1, fan, 5, Patterns.RESIDUAL_LEVEL));
+
+        // the snapshot: header up to seq 3, fan up to seq 1
+        JsonNode snapshot = JSON.readTree(fetch(s, "/api/events?run=header&max=50", null).text());
+        long headerSeen = snapshot.get(snapshot.size() - 1).path("seq").asLong();
+        assertEquals(3, headerSeen);
+        JsonNode fanSnapshot = JSON.readTree(fetch(s, "/api/events?run=" + URLEncoder.encode(fan, StandardCharsets.UTF_8)
+                + "&max=50", null).text());
+        assertEquals(1, fanSnapshot.size());
+
+        // journaled after the snapshot, before the stream connects
+        journal(runs, s, detection(4, "header", 40, Patterns.SINGLE_EQUATION_BLOWUP));
+        journal(runs, s, detection(2, fan, 41, Patterns.STALLED_OSCILLATION));
+
+        String after = URLEncoder.encode(URLEncoder.encode("header", StandardCharsets.UTF_8) + ":" + headerSeen + ","
+                + URLEncoder.encode(fan, StandardCharsets.UTF_8) + ":1", StandardCharsets.UTF_8);
+        Stream first = open(s, "/events?after=" + after, null);
+        await().atMost(Duration.ofSeconds(20)).until(() -> first.timeline().size() >= 2);
+        assertEquals("hello", first.sse().messages().get(0).event(), "the state first, then what was missed");
+        assertEquals(List.of("header#4", fan + "#2"), runSeqs(first.timeline()), "only what the snapshot lacks");
+        assertEquals("header:4", first.timeline().get(0).lastEventId());
+        assertEquals(URLEncoder.encode(fan, StandardCharsets.UTF_8) + ":2", first.timeline().get(1).lastEventId());
+
+        // live from here on
+        journal(runs, s, detection(5, "header", 50, Patterns.RESIDUAL_LEVEL));
+        await().atMost(Duration.ofSeconds(20)).until(() -> first.timeline().size() >= 3);
+        assertEquals(5, seq(first.timeline().get(2)));
+        String lastId = first.timeline().get(2).lastEventId();
+        assertEquals("header:5", lastId);
+        first.close();
+
+        // the connection drops; two events are journaled meanwhile; the client comes back as EventSource does:
+        // the same URL (its after is stale now) and the last event id it received
+        journal(runs, s, detection(3, fan, 55, Patterns.RESIDUAL_LEVEL));
+        journal(runs, s, detection(6, "header", 60, Patterns.RESIDUAL_LEVEL));
+        Stream again = open(s, "/events?after=" + after, lastId);
+        await().atMost(Duration.ofSeconds(20)).until(() -> again.timeline().size() >= 2);
+        journal(runs, s, detection(7, "header", 70, Patterns.RESIDUAL_LEVEL));
+        await().atMost(Duration.ofSeconds(20)).until(() -> again.timeline().size() >= 3);
+        assertEquals(List.of(fan + "#3", "header#6", "header#7"), runSeqs(again.timeline()),
+                "what came after the last event received, in the order written, then live");
+        again.close();
+
+        // a client naming no position gets the live stream only, as before
+        Stream plain = open(s, "/events", null);
+        await().atMost(Duration.ofSeconds(20)).until(() -> !plain.sse().messages().isEmpty());
+        journal(runs, s, detection(8, "header", 80, Patterns.RESIDUAL_LEVEL));
+        await().atMost(Duration.ofSeconds(20)).until(() -> !plain.timeline().isEmpty());
+        assertEquals(List.of("header#8"), runSeqs(plain.timeline()));
+        plain.close();
     }
 
     private static List<JsonNode> progress(Sse sse) throws Exception {

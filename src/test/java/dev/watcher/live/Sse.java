@@ -6,17 +6,21 @@ import java.util.List;
 /**
  * Reads a text/event-stream as the HTML Living Standard's "Server-sent events" section defines it (the
  * interpretation of the event stream): lines end with LF, CRLF or CR; a blank line dispatches the message;
- * {@code event} names it, {@code data} lines are joined by LF; lines starting with a colon are comments.
+ * {@code event} names it, {@code data} lines are joined by LF; lines starting with a colon are comments;
+ * {@code id} sets the last event ID, which stays for the messages after it until another {@code id} changes it
+ * (an id containing NULL is ignored).
  */
 final class Sse {
 
-    record Message(String event, String data) {
+    /** One dispatched message with the last event ID at its dispatch ("" when none was set yet). */
+    record Message(String event, String data, String lastEventId) {
     }
 
     private final StringBuilder pending = new StringBuilder();
     private final List<Message> messages = new ArrayList<>();
     private String event = "message";
     private StringBuilder data;
+    private String lastEventId = "";
 
     synchronized void feed(String chunk) {
         pending.append(chunk);
@@ -42,7 +46,7 @@ final class Sse {
     private void line(String line) {
         if (line.isEmpty()) {
             if (data != null) {
-                messages.add(new Message(event, data.toString()));
+                messages.add(new Message(event, data.toString(), lastEventId));
             }
             event = "message";
             data = null;
@@ -59,6 +63,10 @@ final class Sse {
         }
         if (field.equals("event")) {
             event = value;
+        } else if (field.equals("id")) {
+            if (value.indexOf('\0') < 0) {
+                lastEventId = value;
+            }
         } else if (field.equals("data")) {
             data = data == null ? new StringBuilder(value) : data.append('\n').append(value);
         }

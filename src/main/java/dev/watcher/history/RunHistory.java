@@ -18,8 +18,14 @@ import java.util.Map;
 /**
  * The bounded history of one run for the morning report and the live view: every residual and monitor as
  * a downsampled {@link Series} over the iteration, and for unsteady runs each residual's per-step peak
- * (first inner iteration) and floor (last inner iteration) over the step index. Memory and file size are
- * bounded by the bucket capacity, not by the run's length.
+ * (first inner iteration) and floor (last inner iteration) over the step index, with each step's first
+ * iteration (so that whatever refers to an iteration, a detection, can be placed at its step). Memory and file
+ * size are bounded by the bucket capacity, not by the run's length.
+ *
+ * <p>The step starts are one {@link Series} over the step index whose value is the step's first iteration:
+ * a bucket covering steps {@code x0..x1} holds the first iteration of step {@code x0} as its minimum and that
+ * of step {@code x1} as its last value (iterations rise with the steps). Saved as {@code step_first_iter};
+ * a history saved before it existed has none.
  *
  * <p>Written by the run's thread ({@link #observe}); {@link #save} writes {@code history/RUN.json}
  * atomically; {@link #load} reads it back.
@@ -37,6 +43,7 @@ public final class RunHistory {
     private final Map<String, Series> monitors = new LinkedHashMap<>();
     private final Map<String, Series> peaks = new LinkedHashMap<>();
     private final Map<String, Series> floors = new LinkedHashMap<>();
+    private Series stepStarts = new Series(CAPACITY);
     private long step = IterationRecord.NONE;
     private long lastIter;
     private double[] stepLast;
@@ -86,6 +93,7 @@ public final class RunHistory {
             if (r.step() != step) {
                 closeStep();
                 step = r.step();
+                stepStarts.add(step, r.iter());
                 for (int i = 0; i < res.size(); i++) {
                     peaks.computeIfAbsent(res.name(i), k -> new Series(CAPACITY)).add(step, res.value(i));
                 }
@@ -120,6 +128,11 @@ public final class RunHistory {
         return floors;
     }
 
+    /** Each time step's first iteration over the step index (empty for a steady run). */
+    public Series stepStarts() {
+        return stepStarts;
+    }
+
     public long lastIter() {
         return lastIter;
     }
@@ -144,6 +157,9 @@ public final class RunHistory {
             }
         }
         root.set("step_floors", groupNode(fl));
+        if (stepStarts.size() > 0) {
+            root.set("step_first_iter", seriesNode(JSON.createObjectNode(), stepStarts));
+        }
         Path file = dir.resolve(fileName(run));
         Path tmp = dir.resolve(fileName(run) + ".tmp");
         Files.write(tmp, JSON.writeValueAsBytes(root));
@@ -160,24 +176,26 @@ public final class RunHistory {
 
     private static ObjectNode groupNode(Map<String, Series> group) {
         ObjectNode g = JSON.createObjectNode();
-        group.forEach((name, s) -> {
-            ObjectNode n = g.putObject(name);
-            n.put("width", s.width());
-            n.put("count", s.count());
-            ArrayNode x0 = n.putArray("x0");
-            ArrayNode x1 = n.putArray("x1");
-            ArrayNode mn = n.putArray("min");
-            ArrayNode mx = n.putArray("max");
-            ArrayNode la = n.putArray("last");
-            for (int i = 0; i < s.size(); i++) {
-                x0.add(s.x0(i));
-                x1.add(s.x1(i));
-                num(mn, s.min(i));
-                num(mx, s.max(i));
-                num(la, s.last(i));
-            }
-        });
+        group.forEach((name, s) -> seriesNode(g.putObject(name), s));
         return g;
+    }
+
+    private static ObjectNode seriesNode(ObjectNode n, Series s) {
+        n.put("width", s.width());
+        n.put("count", s.count());
+        ArrayNode x0 = n.putArray("x0");
+        ArrayNode x1 = n.putArray("x1");
+        ArrayNode mn = n.putArray("min");
+        ArrayNode mx = n.putArray("max");
+        ArrayNode la = n.putArray("last");
+        for (int i = 0; i < s.size(); i++) {
+            x0.add(s.x0(i));
+            x1.add(s.x1(i));
+            num(mn, s.min(i));
+            num(mx, s.max(i));
+            num(la, s.last(i));
+        }
+        return n;
     }
 
     private static void num(ArrayNode a, double v) {
@@ -198,29 +216,34 @@ public final class RunHistory {
         readGroup(root.path("monitors"), h.monitors, cap);
         readGroup(root.path("step_peaks"), h.peaks, cap);
         readGroup(root.path("step_floors"), h.floors, cap);
+        if (root.path("step_first_iter").isObject()) {
+            h.stepStarts = readSeries(root.path("step_first_iter"), cap);
+        }
         return h;
     }
 
     private static void readGroup(JsonNode g, Map<String, Series> into, int cap) {
         for (Iterator<Map.Entry<String, JsonNode>> it = g.fields(); it.hasNext();) {
             Map.Entry<String, JsonNode> e = it.next();
-            JsonNode n = e.getValue();
-            int size = n.path("x0").size();
-            long[] x0 = new long[size];
-            long[] x1 = new long[size];
-            double[] mn = new double[size];
-            double[] mx = new double[size];
-            double[] la = new double[size];
-            for (int i = 0; i < size; i++) {
-                x0[i] = n.path("x0").get(i).asLong();
-                x1[i] = n.path("x1").get(i).asLong();
-                mn[i] = val(n.path("min").get(i));
-                mx[i] = val(n.path("max").get(i));
-                la[i] = val(n.path("last").get(i));
-            }
-            into.put(e.getKey(), Series.restore(cap, n.path("width").asLong(1), n.path("count").asLong(), x0, x1, mn,
-                    mx, la));
+            into.put(e.getKey(), readSeries(e.getValue(), cap));
         }
+    }
+
+    private static Series readSeries(JsonNode n, int cap) {
+        int size = n.path("x0").size();
+        long[] x0 = new long[size];
+        long[] x1 = new long[size];
+        double[] mn = new double[size];
+        double[] mx = new double[size];
+        double[] la = new double[size];
+        for (int i = 0; i < size; i++) {
+            x0[i] = n.path("x0").get(i).asLong();
+            x1[i] = n.path("x1").get(i).asLong();
+            mn[i] = val(n.path("min").get(i));
+            mx[i] = val(n.path("max").get(i));
+            la[i] = val(n.path("last").get(i));
+        }
+        return Series.restore(cap, n.path("width").asLong(1), n.path("count").asLong(), x0, x1, mn, mx, la);
     }
 
     private static double val(JsonNode n) {

@@ -154,8 +154,12 @@ final class Charts {
                 + Numbers.show(Numbers.of(ev.get("half_width")));
     }
 
-    /** Unsteady runs: per time step the residual at the first inner iteration (peak) and at the last (floor). */
-    static Chart steps(String id, History h) {
+    /**
+     * Unsteady runs: per time step the residual at the first inner iteration (peak) and at the last (floor),
+     * with the residual plot's condition spans and stops placed at their time steps (through the history's
+     * step starts; none when the history has no step map).
+     */
+    static Chart steps(String id, History h, List<Event> events) {
         ObjectNode spec = base(id, "time step", "residual", true);
         Map<String, History.Track> both = new java.util.LinkedHashMap<>();
         h.peaks().forEach((k, v) -> both.put(k + " peak", v));
@@ -199,13 +203,51 @@ final class Charts {
         for (double l : LEVELS) {
             levels.add(l);
         }
-        spec.putArray("spans");
+        boolean placed = h.knowsSteps();
+        spec.set("spans", placed ? atSteps(h, spans(events, e -> e.monitor() == null
+                && !isMonitorPattern(e.pattern()))) : JSON.createArrayNode());
+        spec.set("actions", placed ? actionsAtSteps(h, actions(events)) : JSON.createArrayNode());
         long width = both.values().stream().mapToLong(History.Track::width).max().orElse(1);
         String caption = "Per time step: the residual at the step's first inner iteration (peak, solid) and at its"
                 + " last (floor, dotted); highest value in each bucket of " + Numbers.count(width) + " step"
                 + (width == 1 ? "" : "s") + ", log axis. Peaks climbing step after step mean the step is too large"
-                + " for the scheme.";
+                + " for the scheme."
+                + (placed ? " Conditions and stops are marked at the time step of their iteration, as on the"
+                        + " residual plot." : " Conditions are not marked here: this history has no map from"
+                        + " iterations to time steps (written by an older watcher).");
         return new Chart(id, spec, legend, caption);
+    }
+
+    /** Spans with their iterations replaced by time steps; a span whose opening has no step is left out. */
+    private static ArrayNode atSteps(History h, ArrayNode spans) {
+        ArrayNode out = JSON.createArrayNode();
+        for (JsonNode s : spans) {
+            long x0 = h.stepOf(s.path("x0").asLong());
+            if (x0 < 0) {
+                continue;
+            }
+            ObjectNode o = ((ObjectNode) s).deepCopy();
+            o.put("x0", x0);
+            o.put("iter0", s.path("x0").asLong());
+            if (!s.path("x1").isNull()) {
+                // a resolution before the first step is not possible after an opening inside one
+                o.put("x1", Math.max(x0, h.stepOf(s.path("x1").asLong())));
+                o.put("iter1", s.path("x1").asLong());
+            }
+            out.add(o);
+        }
+        return out;
+    }
+
+    private static ArrayNode actionsAtSteps(History h, ArrayNode actions) {
+        ArrayNode out = JSON.createArrayNode();
+        for (JsonNode a : actions) {
+            long x = h.stepOf(a.path("x").asLong());
+            if (x >= 0) {
+                out.add(((ObjectNode) a).deepCopy().put("x", x).put("iter", a.path("x").asLong()));
+            }
+        }
+        return out;
     }
 
     private static ObjectNode base(String id, String xLabel, String yLabel, boolean log) {

@@ -220,7 +220,7 @@ final class Page {
             }
             if (h.unsteady()) {
                 out.append("<h3>Per-step peaks and floors</h3>\n");
-                figure(Charts.steps(nextId(), h), "tall");
+                figure(Charts.steps(nextId(), h, r.events()), "tall");
             }
         }
         forecasts(r);

@@ -99,8 +99,9 @@ class ReportBrowserIT {
         assertEquals(plots, check.path("nonBlank").asInt(), "canvases with drawn pixels");
         assertTrue(check.path("seriesDrawn").asInt() >= plots, "series drawn: " + check);
         // condition markers from the generated timelines: header: blow-up opened + resolved, converged opened,
-        // drag-force settled opened; tunnel-fan: divergence opened; rooftop: rising peaks and non-finite opened
-        assertEquals(7, check.path("markers").asInt(), "markers drawn: " + check);
+        // drag-force settled opened; tunnel-fan: divergence opened; rooftop: rising peaks and non-finite opened,
+        // on its residual plot and again at their time steps on its per-step plot
+        assertEquals(9, check.path("markers").asInt(), "markers drawn: " + check);
         assertEquals(1, check.path("bands").asInt(), "settled bands: " + check);
         // tunnel-fan: the stop requested and carried out at one iteration is one mark
         assertEquals(1, check.path("actions").asInt(), "stop marks: " + check);

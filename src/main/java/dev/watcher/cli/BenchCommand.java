@@ -7,7 +7,7 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Parameters;
 
 @Command(name = "bench", mixinStandardHelpOptions = true,
-        description = "Generate a whitespace table log (iteration + 8 columns, %.4e) of N lines: watcher bench"
+        description = "Generate a whitespace table log (iteration + 8 columns, %%.4e) of N lines: watcher bench"
                 + " gen FILE N. The full benchmark against mawk is bench/run-bench.sh (README).")
 final class BenchCommand implements Callable<Integer> {
 

@@ -1,6 +1,9 @@
 package dev.watcher.tail;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
 import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
 import java.nio.CharBuffer;
 import java.nio.charset.CharsetDecoder;
 import java.nio.charset.CoderResult;
@@ -18,6 +21,8 @@ import java.util.Arrays;
  * <p>Not thread-safe; one per file being read.
  */
 final class LineSplitter {
+
+    private static final VarHandle WORD = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
 
     private final int max;
     private final String name;
@@ -97,6 +102,19 @@ final class LineSplitter {
         boolean nonAscii = false;
         boolean binary = false;
         while (i < to) {
+            // printable ASCII, eight bytes at a time: every byte of the word in 0x20..0x7f exactly when
+            // neither the word nor the word less 0x20 in every byte has a top bit set (a byte below 0x20 is
+            // the first to borrow, so the test cannot pass over one)
+            while (i + 8 <= to) {
+                long w = (long) WORD.get(buf, i);
+                if (((w | (w - 0x2020202020202020L)) & 0x8080808080808080L) != 0) {
+                    break;
+                }
+                i += 8;
+            }
+            if (i >= to) {
+                break;
+            }
             byte b = buf[i];
             if (b >= 0x20) {
                 // printable ASCII: the hot path

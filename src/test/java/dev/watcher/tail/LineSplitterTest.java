@@ -77,6 +77,36 @@ class LineSplitterTest {
     }
 
     @Test
+    void randomTextInRandomReadsGivesTheLinesOfTheJdkReader() throws java.io.IOException {
+        // reference: java.io.BufferedReader.readLine, whose line ends are ours (\n, \r\n, a bare \r); long
+        // printable runs cross the eight-byte words the splitter skips at once, at every alignment
+        java.util.Random rnd = new java.util.Random(20261202);
+        String[] pieces = {"pass 1200 | cont 3.2e-02", "x", "ab", "\t", "\u00e9t\u00e9", "\u20ac", "\r", "\n", "\r\n",
+            " ", "~", "0123456789abcdef"};
+        for (int round = 0; round < 300; round++) {
+            StringBuilder text = new StringBuilder();
+            int n = rnd.nextInt(60);
+            for (int k = 0; k < n; k++) {
+                text.append(pieces[rnd.nextInt(pieces.length)]);
+            }
+            List<String> expected = new java.io.BufferedReader(new java.io.StringReader(text.toString())).lines().toList();
+            byte[] b = bytes(text.toString());
+            LineSplitter s = new LineSplitter(1 << 20, "test.log");
+            s.reset(0, 0, false);
+            RecordingHandler h = new RecordingHandler();
+            int at = 0;
+            while (at < b.length) {
+                int to = Math.min(b.length, at + 1 + rnd.nextInt(40));
+                s.feed(b, at, to, h);
+                at = to;
+            }
+            s.finish(h);
+            assertEquals(expected, h.lines, "text: " + text.toString().replace("\r", "\\r").replace("\n", "\\n"));
+            assertEquals(List.of(), h.notices);
+        }
+    }
+
+    @Test
     void decodesValidMultiByteUtf8LikeTheJdkDecoder() {
         // RFC 3629 section 3: U+00E9 is C3 A9, U+20AC is E2 82 AC, U+1F600 is F0 9F 98 80
         byte[] line = raw(0x71, 0x3d, 0xc3, 0xa9, 0x20, 0xe2, 0x82, 0xac, 0x20, 0xf0, 0x9f, 0x98, 0x80);

@@ -8,6 +8,8 @@
 # The replay reads the table with bench/bench-table.yaml (seven residuals and the monitor vmid), so every
 # standard detector runs, the monitor detectors included (BENCH_FORMAT overrides it, e.g. BENCH_FORMAT=table).
 #
+# mawk and the replay run BENCH_REPEAT times each (default 3), alternately; their medians are compared.
+#
 # Environment: BENCH_DIR (default: a fresh temp dir, removed at the end), BENCH_XMX (default 128m),
 # BENCH_KEEP=1 keeps the generated files. The figures are a measurement, not a test.
 set -euo pipefail
@@ -42,6 +44,8 @@ timed() {
 }
 rate() { awk -v b="$bytes" -v s="$1" -v n="$lines" 'BEGIN{printf "%.0f records/s  %.1f MB/s", n/s, b/1e6/s}'; }
 ratio() { awk -v a="$1" -v b="$2" 'BEGIN{printf "%.2f", a/b}'; }
+median() { printf '%s\n' "$@" | sort -n | awk '{v[NR] = $1} END {print v[int((NR + 1) / 2)]}'; }
+repeat="${BENCH_REPEAT:-3}"
 
 has_replay=0
 if [[ -x "$root/watcher" ]] && "$root/watcher" build >/dev/null && "$root/watcher" replay --help >/dev/null 2>&1; then
@@ -58,11 +62,24 @@ run_one() {
 
   echo "== $lines lines, $(awk -v b="$bytes" 'BEGIN{printf "%.1f", b/1e6}') MB: $file"
   echo "   (wall = elapsed seconds, cpu = user+sys seconds; on a busy machine cpu is the steadier figure)"
-  local awk_wall="" awk_cpu=""
-  if command -v mawk >/dev/null; then
-    timed mawk '{for(i=2;i<=9;i++) s+=log($i)} END{print s}' "$file"
-    awk_wall=$wall; awk_cpu=$cpu
-    echo "mawk            wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (printed: $(cat "$work/out"))"
+  # mawk and the replay are timed BENCH_REPEAT times each, alternately (a shared VM's speed drifts); the
+  # medians are compared and every run's wall time is shown
+  local awk_wall="" awk_cpu="" awk_walls="" rep_walls="" rep_cpus="" awk_cpus="" state peak="" r
+  for ((r = 1; r <= repeat; r++)); do
+    if command -v mawk >/dev/null; then
+      timed mawk '{for(i=2;i<=9;i++) s+=log($i)} END{print s}' "$file"
+      awk_walls+="$wall "; awk_cpus+="$cpu "; cp "$work/out" "$work/mawk.out"
+    fi
+    if [[ "$has_replay" == 1 ]]; then
+      state="$work/state-$lines"; rm -rf "$state"; mkdir -p "$state"
+      WATCHER_HEAP="$xmx" WATCHER_JAVA_OPTS="-Xlog:gc:file=$work/gc-$lines-$r.log ${WATCHER_JAVA_OPTS:-}" \
+        timed "$root/watcher" replay "$file" --format "$format" --state "$state"
+      rep_walls+="$wall "; rep_cpus+="$cpu "; cp "$work/out" "$work/replay.out"
+    fi
+  done
+  if [[ -n "$awk_walls" ]]; then
+    awk_wall=$(median $awk_walls); awk_cpu=$(median $awk_cpus)
+    echo "mawk            wall ${awk_wall} s  cpu ${awk_cpu} s  $(rate "$awk_wall")  (median of $repeat: ${awk_walls% }; printed: $(cat "$work/mawk.out"))"
   else
     echo "mawk            not installed: no reference time"
   fi
@@ -73,17 +90,15 @@ run_one() {
   [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
 
   if [[ "$has_replay" == 1 ]]; then
-    local state="$work/state-$lines"; rm -rf "$state"; mkdir -p "$state"
-    WATCHER_HEAP="$xmx" WATCHER_JAVA_OPTS="-Xlog:gc:file=$work/gc-$lines.log ${WATCHER_JAVA_OPTS:-}" \
-      timed "$root/watcher" replay "$file" --format "$format" --state "$state"
-    # peak heap: the largest heap occupancy the GC log shows before a collection
-    local peak; peak=$(grep -o '[0-9]*M->' "$work/gc-$lines.log" 2>/dev/null | sed 's/M->//' | sort -n | tail -1 || true)
-    echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (-Xmx$xmx, peak heap ${peak:-?} MB by GC log)"
+    wall=$(median $rep_walls); cpu=$(median $rep_cpus)
+    # peak heap: the largest heap occupancy the GC logs show before a collection
+    peak=$(cat "$work"/gc-"$lines"-*.log 2>/dev/null | grep -o '[0-9]*M->' | sed 's/M->//' | sort -n | tail -1 || true)
+    echo "watcher replay  wall ${wall} s  cpu ${cpu} s  $(rate "$wall")  (median of $repeat: ${rep_walls% }; -Xmx$xmx, peak heap ${peak:-?} MB by GC log)"
     echo "                format: $format"
     local counts; counts=$(grep -o '"type":"detection"[^}]*"state":"open"' "$state/timeline.jsonl" 2>/dev/null | wc -l || true)
     echo "                timeline: $(wc -l <"$state/timeline.jsonl") events, ${counts} detections opened"
     [[ -n "$awk_wall" ]] && echo "                $(ratio "$awk_wall" "$wall")x mawk's speed by wall time, $(ratio "$awk_cpu" "$cpu")x by cpu time"
-    tail -n 3 "$work/out" | sed 's/^/                /'
+    tail -n 3 "$work/replay.out" | sed 's/^/                /'
   else
     echo "watcher replay  not available yet (no ./watcher with a replay command)"
   fi

@@ -20,6 +20,9 @@ public final class Main implements Runnable {
 
     /** Runs the command line and returns the exit code (tests call this). */
     public static int execute(String... args) {
+        if (args.length > 0 && ("replay".equals(args[0]) || "watch".equals(args[0]) || "demo".equals(args[0]))) {
+            dev.watcher.daemon.Prewarm.start();
+        }
         CommandLine cl = new CommandLine(new Main());
         cl.setExecutionExceptionHandler((ex, cmd, parsed) -> {
             if (ex instanceof UserError u) {

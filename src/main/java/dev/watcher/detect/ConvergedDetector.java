@@ -37,6 +37,9 @@ import java.util.function.Consumer;
  * {@code residual_target.<equation>}; {@code drop_orders} (0 = off) and {@code drop_orders.<equation>}: when
  * set, the equation's target is its maximum since the run began divided by 10^drop_orders (for solvers that
  * print raw residuals); {@code hold} samples (10); {@code every} samples between monitor judgements (25);
+ * {@code open_every} samples between the monitor judgements that keep an open verdict open (125: once open,
+ * a monitor that starts to drift resolves it within {@code clear_checks} such judgements, while the
+ * residuals are still checked at every sample; the judgements are the costly part of a long converged tail);
  * {@code resolve_decades} (0.5: a residual must rise this far above its target to count against an open
  * verdict); {@code clear_checks} (3); {@code forecast_window} (200); {@code forecast_every} (50: forecasts are computed on demand, at most once per that many samples); {@code
  * regime_jump_decades} (1.0). Monitor tolerances come from {@code monitor-settled.*} and {@code
@@ -82,6 +85,9 @@ final class ConvergedDetector implements Detector {
     private long samples;
     /** Samples left until the next every-th one (samples % every == 0). */
     private int untilCheck;
+    private final int openEvery;
+    /** While open: samples left until the monitors are judged again. */
+    private int untilOpenCheck;
     private long forecastsAt = -1;
     private long lastIter;
     private boolean open;
@@ -196,6 +202,7 @@ final class ConvergedDetector implements Detector {
         this.dropOrders = s.number(p + "drop_orders", 0);
         this.hold = Math.max(1, s.integer(p + "hold", 10));
         this.every = Math.max(1, s.integer(p + "every", 25));
+        this.openEvery = Math.max(1, s.integer(p + "open_every", 125));
         this.untilCheck = every;
         this.resolveFactor = Math.pow(10, s.number(p + "resolve_decades", 0.5));
         this.clearChecks = Math.max(1, s.integer(p + "clear_checks", 3));
@@ -259,7 +266,11 @@ final class ConvergedDetector implements Detector {
             untilCheck = every;
         }
         if (open) {
-            checkOpen(check, out);
+            boolean judge = --untilOpenCheck <= 0;
+            if (judge) {
+                untilOpenCheck = openEvery;
+            }
+            checkOpen(judge, out);
         } else if (check) {
             checkClosed(out);
         }
@@ -356,6 +367,7 @@ final class ConvergedDetector implements Detector {
         forecastsAt = -1;
         updateForecasts();
         open = true;
+        untilOpenCheck = openEvery;
         openResidualsOnly = monitors.names().isEmpty();
         failing = 0;
         String summary = openResidualsOnly

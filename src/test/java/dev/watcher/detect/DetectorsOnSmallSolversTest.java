@@ -130,6 +130,33 @@ class DetectorsOnSmallSolversTest {
     }
 
     @Test
+    void anOpenVerdictResolvesWhenAMonitorDriftsAwayWhileTheResidualsStayAtTarget() {
+        // converged on the Poisson run, then the heat source is ramped (1e-5 per sweep): the residuals keep
+        // their targets, the centre value drifts, and the verdict must not stay open. Once open, the monitors
+        // are judged every open_every samples (125) instead of every 25: the resolution may come later by at
+        // most clear_checks (3) of the longer intervals, no more
+        List<IterationRecord> plain = SmallSolvers.poissonGaussSeidel(48, 6000, 0.5, 1);
+        long opened = Harness.run(plain, new ConvergedDetector(DetectSettings.defaults()))
+                .firstOpen(Patterns.CONVERGED).orElseThrow().iter();
+        int rampFrom = (int) opened + 500;
+        List<IterationRecord> h = SmallSolvers.poissonGaussSeidel(48, 6000, 0.5, 1, rampFrom, 1e-5);
+        long[] resolvedAt = new long[2];
+        int k = 0;
+        for (int openEvery : new int[] {25, 125}) {
+            DetectSettings s = DetectSettings.of(Map.of("converged.open_every", Integer.toString(openEvery)), Map.of());
+            Harness r = Harness.run(h, new ConvergedDetector(s));
+            assertEquals(opened, r.firstOpen(Patterns.CONVERGED).orElseThrow().iter(), "the opening is unchanged");
+            Detection resolved = r.of(Patterns.CONVERGED).stream().filter(d -> d.state() == DetectionState.RESOLVED)
+                    .findFirst().orElseThrow(() -> new AssertionError("still open with open_every " + openEvery));
+            assertTrue(resolved.iter() > rampFrom, resolved.iter() + " vs ramp from " + rampFrom);
+            double[] res = h.get((int) resolved.iter() - 1).residuals().values();
+            assertTrue(res[0] <= 1e-5 && res[1] <= 1e-5, "the residuals still hold their targets: " + res[0] + ", " + res[1]);
+            resolvedAt[k++] = resolved.iter();
+        }
+        assertTrue(resolvedAt[1] - resolvedAt[0] <= 3 * 125, "every 25: " + resolvedAt[0] + ", every 125: " + resolvedAt[1]);
+    }
+
+    @Test
     void aLogWithoutMonitorsReachesOnlyAResidualsOnlyVerdict() {
         List<IterationRecord> h = SmallSolvers.withoutMonitors(SmallSolvers.poissonGaussSeidel(48, 2500, 0.5, 1));
         Harness r = Harness.run(h, new ConvergedDetector(DetectSettings.defaults()));

@@ -27,6 +27,17 @@ final class SmallSolvers {
      * u(x) - u(1 - x) at mirrored points goes to zero (the problem is symmetric): a monitor near zero.
      */
     static List<IterationRecord> poissonGaussSeidel(int n, int sweeps, double roughness, long seed) {
+        return poissonGaussSeidel(n, sweeps, roughness, seed, Integer.MAX_VALUE, 0);
+    }
+
+    /**
+     * As {@link #poissonGaussSeidel(int, int, double, long)}, but from sweep {@code rampFrom} on the source of
+     * the first equation grows by {@code rampPerSweep} (relative) each sweep, as when a boundary condition is
+     * ramped during a steady run: the iterations keep up, so its residual stays small while the centre value
+     * follows the source and drifts.
+     */
+    static List<IterationRecord> poissonGaussSeidel(int n, int sweeps, double roughness, long seed, int rampFrom,
+            double rampPerSweep) {
         double h = 1.0 / (n + 1);
         Random rng = new Random(seed);
         double[] u = new double[n];
@@ -40,10 +51,14 @@ final class SmallSolvers {
         List<IterationRecord> out = new ArrayList<>();
         double nu = 0;
         double nv = 0;
+        double fu = 1.0;
         for (int it = 1; it <= sweeps; it++) {
-            gaussSeidel(u, 1.0, h);
+            if (it >= rampFrom) {
+                fu *= 1 + rampPerSweep;
+            }
+            gaussSeidel(u, fu, h);
             gaussSeidel(v, 2.0, h);
-            double ru = rms(u, 1.0, h);
+            double ru = rms(u, fu, h);
             double rv = rms(v, 2.0, h);
             if (it <= 5) {
                 nu = Math.max(nu, ru);

@@ -91,23 +91,56 @@ public record BatchMeans(int batches, int batchSize, double mean, double halfWid
             ss += (v - grand) * (v - grand);
         }
         double sd = Math.sqrt(ss / (batches - 1));
-        double t = tQuantile(batches - 1, 1 - (1 - confidence) / 2);
+        double t = tQuantile(batches - 1, twoSided(confidence));
         return new BatchMeans(batches, size, grand, t * sd / Math.sqrt(batches), confidence, m);
     }
 
-    private record QuantileKey(int degreesOfFreedom, double p) {
+    /** The upper quantile's probability for a two-sided interval of the given confidence. */
+    static double twoSided(double confidence) {
+        return 1 - (1 - confidence) / 2;
     }
 
-    private static final java.util.concurrent.ConcurrentHashMap<QuantileKey, Double> T_QUANTILES =
-            new java.util.concurrent.ConcurrentHashMap<>();
+    /**
+     * Computes ahead the quantiles that batch means of {@code confidence} ask for (9 to 29 degrees of
+     * freedom), so that the first judgements of a run do not wait for them: a start-up head start, the same
+     * values as when computed on demand.
+     */
+    public static void prepare(double confidence) {
+        for (int df = 9; df <= 29; df++) {
+            tQuantile(df, twoSided(confidence));
+        }
+    }
+
+    /** Quantiles are remembered for these degrees of freedom (batch means use 9 to 29); others are computed. */
+    private static final int CACHED_DF = 128;
+    private static final long NOT_YET = Double.doubleToRawLongBits(Double.NaN);
+    /** Per probability, the quantiles by degrees of freedom (NaN until asked for): a run asks for one or two p. */
+    private static final java.util.concurrent.ConcurrentHashMap<Double, java.util.concurrent.atomic.AtomicLongArray>
+            T_QUANTILES = new java.util.concurrent.ConcurrentHashMap<>();
 
     /**
      * Student's t quantile (Commons Math, without creating a random generator). Remembered per (df, p): the
-     * detectors ask for a handful of them over and over, and the inversion is iterative.
+     * detectors ask for a handful of them over and over, and the inversion is iterative. The memory is an
+     * array per p indexed by df (a record or string key cost more than the batch means themselves, and a
+     * record's first hash took milliseconds of start-up).
      */
     public static double tQuantile(int degreesOfFreedom, double p) {
-        // keyed by a record, not a string: turning p into text cost more than the batch means themselves
-        return T_QUANTILES.computeIfAbsent(new QuantileKey(degreesOfFreedom, p),
-                k -> new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p));
+        if (degreesOfFreedom < 1 || degreesOfFreedom >= CACHED_DF) {
+            return new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p);
+        }
+        java.util.concurrent.atomic.AtomicLongArray byDf = T_QUANTILES.computeIfAbsent(p, k -> {
+            java.util.concurrent.atomic.AtomicLongArray a = new java.util.concurrent.atomic.AtomicLongArray(CACHED_DF);
+            for (int i = 0; i < CACHED_DF; i++) {
+                a.set(i, NOT_YET);
+            }
+            return a;
+        });
+        long bits = byDf.get(degreesOfFreedom);
+        if (bits != NOT_YET) {
+            return Double.longBitsToDouble(bits);
+        }
+        double q = new TDistribution(null, degreesOfFreedom).inverseCumulativeProbability(p);
+        byDf.set(degreesOfFreedom, Double.doubleToRawLongBits(q));
+        return q;
     }
 }

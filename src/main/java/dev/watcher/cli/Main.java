@@ -1,5 +1,8 @@
 package dev.watcher.cli;
 
+import java.util.LinkedHashMap;
+import java.util.Map;
+import java.util.function.Supplier;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 
@@ -9,10 +12,37 @@ import picocli.CommandLine.Command;
  */
 @Command(name = "watcher", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
         description = "Follows the growing logs of long CFD runs, judges convergence, alerts with remedies,"
-                + " stops diverging jobs when allowed, and leaves an event timeline and a report.",
-        subcommands = {DemoCommand.class, WatchCommand.class, ReplayCommand.class, ReportCommand.class,
-            CheckCommand.class, BenchCommand.class, CommandLine.HelpCommand.class})
+                + " stops diverging jobs when allowed, and leaves an event timeline and a report.")
 public final class Main implements Runnable {
+
+    /**
+     * The subcommands by name. Picocli builds a command's model by reflection over its options, which is a
+     * good part of a short replay's start-up: only the command named on the command line is given to it
+     * (every one when none is named, for the usage, or for {@code help}).
+     */
+    private static final Map<String, Supplier<Object>> COMMANDS = commands();
+
+    private static Map<String, Supplier<Object>> commands() {
+        Map<String, Supplier<Object>> m = new LinkedHashMap<>();
+        m.put("demo", DemoCommand::new);
+        m.put("watch", WatchCommand::new);
+        m.put("replay", ReplayCommand::new);
+        m.put("report", ReportCommand::new);
+        m.put("check", CheckCommand::new);
+        m.put("bench", BenchCommand::new);
+        m.put("help", CommandLine.HelpCommand::new);
+        return m;
+    }
+
+    private static CommandLine withCommands(CommandLine cl, String only) {
+        Supplier<Object> named = only == null || "help".equals(only) ? null : COMMANDS.get(only);
+        if (named != null) {
+            cl.addSubcommand(only, named.get());
+        } else {
+            COMMANDS.forEach((name, command) -> cl.addSubcommand(name, command.get()));
+        }
+        return cl;
+    }
 
     public static void main(String[] args) {
         System.exit(execute(args));
@@ -23,7 +53,7 @@ public final class Main implements Runnable {
         if (args.length > 0 && ("replay".equals(args[0]) || "watch".equals(args[0]) || "demo".equals(args[0]))) {
             dev.watcher.daemon.Prewarm.start();
         }
-        CommandLine cl = new CommandLine(new Main());
+        CommandLine cl = withCommands(new CommandLine(new Main()), args.length > 0 ? args[0] : null);
         cl.setExecutionExceptionHandler((ex, cmd, parsed) -> {
             if (ex instanceof UserError u) {
                 cmd.getErr().println("watcher: " + u.getMessage());
@@ -40,7 +70,7 @@ public final class Main implements Runnable {
 
     @Override
     public void run() {
-        new CommandLine(this).usage(System.out);
+        withCommands(new CommandLine(this), null).usage(System.out);
     }
 
     /** Bad usage or invalid input: the message is shown as it is and the exit code is 2. */

@@ -180,6 +180,11 @@ final class RunPipeline {
      * segments; it mirrors the run's thread's segment filter and last iteration.
      */
     final class Lane {
+        // The lane's own copies of what it reads for every record: read through RunPipeline.this, they would
+        // share a cache line with the fields the run's thread writes for every record (the last record), and
+        // the two cores would pass that line back and forth record after record.
+        private final Detector[] lentDetectors = detectorArray;
+        private final int from = laneFrom;
         private int laneSegment;
         private long laneLastIter;
         private List<Detection> found;
@@ -198,8 +203,9 @@ final class RunPipeline {
         /** Runs the lent detectors over a record; their detections, or null when there were none. */
         List<Detection> record(IterationRecord r) {
             laneLastIter = r.iter();
-            for (int i = laneFrom; i < detectorArray.length; i++) {
-                detectorArray[i].observe(r, collect);
+            Detector[] ds = lentDetectors;
+            for (int i = from; i < ds.length; i++) {
+                ds[i].observe(r, collect);
             }
             return take();
         }
@@ -210,8 +216,8 @@ final class RunPipeline {
                 return null;
             }
             laneSegment = seg;
-            for (int i = laneFrom; i < detectorArray.length; i++) {
-                detectorArray[i].segment(seg, laneLastIter, collect);
+            for (int i = from; i < lentDetectors.length; i++) {
+                lentDetectors[i].segment(seg, laneLastIter, collect);
             }
             return take();
         }

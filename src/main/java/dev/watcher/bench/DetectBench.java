@@ -43,14 +43,18 @@ public final class DetectBench {
         // first, so neither the generation nor any detector is timed while still being compiled (timed cold,
         // the generation came out slower than generation plus a detector, and the differences negative).
         pass(Math.min(n, 500_000), names, null);
+        // each detector's pass is paired with a generation-only pass right before it, and that one is
+        // subtracted: the speed of a shared VM drifts over the minute the whole bench takes
         double base = pass(n, List.of(), null);
         System.out.printf("%-32s %8.1f ns/record (generation, subtracted below)%n", "records", base);
         double sum = 0;
         for (String name : names) {
-            double t = pass(n, List.of(name), null) - base;
+            double b = pass(n, List.of(), null);
+            double t = pass(n, List.of(name), null) - b;
             sum += t;
             System.out.printf("%-32s %8.1f ns/record%n", name, t);
         }
+        base = pass(n, List.of(), null);
         Map<String, Long> byPattern = new LinkedHashMap<>();
         double all = pass(n, names, byPattern) - base;
         System.out.printf("%-32s %8.1f ns/record together (%.1f as the sum of the single runs), %d records%n",

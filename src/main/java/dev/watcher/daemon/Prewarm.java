@@ -19,9 +19,9 @@ import org.slf4j.LoggerFactory;
  * Start-up in parallel: while the command line is parsed and the rules and formats are read, a background
  * thread initializes what the pipeline needs next and takes long to set up the first time: the logging
  * configuration, the JSON encoders of the timeline, the state directory and the history, and the Student t
- * quantiles of the monitor judgements. A replay of a
- * short log starts about a tenth of a second sooner on two cores. It touches no state of a run: only class
- * initialization, which the JVM serializes, and a throw-away encoding.
+ * quantiles of the monitor judgements. A replay of a short log starts about a tenth of a second sooner on two
+ * cores. It touches no state of a run: only class initialization, which the JVM serializes, a throw-away
+ * encoding, and a cache of pure function values.
  */
 public final class Prewarm {
 
